@@ -1,0 +1,129 @@
+import { index, integer, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { calendarDate, createdAt, id, instant, updatedAt } from "./columns";
+import { checklists } from "./checkoffs";
+import { organisations, people, units } from "./core";
+import { itemVersions } from "./bank";
+
+export const REVIEW_POLICIES = ["score-only", "score-and-topics", "full-rationale"] as const;
+
+export const exams = sqliteTable(
+  "exams",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    title: text("title").notNull(),
+    status: text("status", { enum: ["draft", "published", "retired"] }).notNull().default("draft"),
+    currentVersionId: text("current_version_id"),
+    createdBy: text("created_by").references(() => people.id),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index("exams_org").on(t.orgId)],
+);
+
+export const examVersions = sqliteTable(
+  "exam_versions",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    examId: text("exam_id").notNull().references(() => exams.id),
+    version: integer("version").notNull(),
+    description: text("description"),
+    /** Blueprint: topic → count, difficulty mix, fixed items. JSON. */
+    blueprint: text("blueprint", { mode: "json" }).notNull(),
+    timeLimitMinutes: integer("time_limit_minutes"),
+    passMarkPercent: real("pass_mark_percent").notNull(),
+    attemptsAllowed: integer("attempts_allowed").notNull().default(2),
+    shuffleItems: integer("shuffle_items", { mode: "boolean" }).notNull().default(true),
+    shuffleOptions: integer("shuffle_options", { mode: "boolean" }).notNull().default(true),
+    reviewPolicy: text("review_policy", { enum: REVIEW_POLICIES }).notNull().default("score-and-topics"),
+    multipleResponseScoring: text("multiple_response_scoring", { enum: ["all-or-nothing", "partial"] })
+      .notNull()
+      .default("all-or-nothing"),
+    availableFrom: calendarDate("available_from"),
+    availableUntil: calendarDate("available_until"),
+    publishedAt: instant("published_at"),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("exam_versions_exam_version").on(t.examId, t.version)],
+);
+
+/** Work given to a person: an exam to take or a checklist to be observed, with a due date. */
+export const assignments = sqliteTable(
+  "assignments",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    personId: text("person_id").notNull().references(() => people.id),
+    kind: text("kind", { enum: ["exam", "checklist"] }).notNull(),
+    examId: text("exam_id").references(() => exams.id),
+    checklistId: text("checklist_id").references(() => checklists.id),
+    requirementId: text("requirement_id"),
+    /** How it was assigned: to the person, a unit, or a role. */
+    viaUnitId: text("via_unit_id").references(() => units.id),
+    viaRole: text("via_role"),
+    dueOn: calendarDate("due_on").notNull(),
+    status: text("status", { enum: ["open", "completed", "cancelled"] }).notNull().default("open"),
+    completedAt: instant("completed_at"),
+    assignedBy: text("assigned_by").references(() => people.id),
+    createdAt: createdAt(),
+  },
+  (t) => [index("assignments_person").on(t.personId), index("assignments_org").on(t.orgId)],
+);
+
+export const attempts = sqliteTable(
+  "attempts",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    personId: text("person_id").notNull().references(() => people.id),
+    examVersionId: text("exam_version_id").notNull().references(() => examVersions.id),
+    assignmentId: text("assignment_id").references(() => assignments.id),
+    /** Seed for the drawn form, shuffles and scenario items: replays exactly. */
+    seed: integer("seed").notNull(),
+    /** The drawn items in order, with their item-version ids. JSON. */
+    form: text("form", { mode: "json" }).notNull(),
+    startedAt: instant("started_at").notNull(),
+    /** Server-held deadline; null for an untimed sitting. */
+    deadlineAt: instant("deadline_at"),
+    submittedAt: instant("submitted_at"),
+    closedReason: text("closed_reason", { enum: ["submitted", "deadline"] }),
+    scorePercent: real("score_percent"),
+    passed: integer("passed", { mode: "boolean" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("attempts_person").on(t.personId), index("attempts_exam_version").on(t.examVersionId)],
+);
+
+export const responses = sqliteTable(
+  "responses",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    attemptId: text("attempt_id").notNull().references(() => attempts.id),
+    itemVersionId: text("item_version_id").notNull().references(() => itemVersions.id),
+    position: integer("position").notNull(),
+    answer: text("answer", { mode: "json" }),
+    flagged: integer("flagged", { mode: "boolean" }).notNull().default(false),
+    score: real("score"),
+    savedAt: instant("saved_at").notNull(),
+  },
+  (t) => [uniqueIndex("responses_attempt_position").on(t.attemptId, t.position)],
+);
+
+/** WCAG 2.2.1 Timing Adjustable: extra time or an untimed sitting, with a reason. */
+export const accommodations = sqliteTable("accommodations", {
+  id: id(),
+  orgId: text("org_id").notNull().references(() => organisations.id),
+  personId: text("person_id").notNull().references(() => people.id),
+  kind: text("kind", { enum: ["multiplier", "untimed"] }).notNull(),
+  multiplier: real("multiplier"),
+  reason: text("reason").notNull(),
+  endsOn: calendarDate("ends_on"),
+  grantedBy: text("granted_by").references(() => people.id),
+  createdAt: createdAt(),
+});
+
+export type Exam = typeof exams.$inferSelect;
+export type Assignment = typeof assignments.$inferSelect;
+export type Attempt = typeof attempts.$inferSelect;

@@ -1,0 +1,7 @@
+export * from "./core";
+export * from "./auth";
+export * from "./bank";
+export * from "./exams";
+export * from "./checkoffs";
+export * from "./compliance";
+export * from "./audit";
