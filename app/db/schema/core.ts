@@ -2,8 +2,9 @@ import { sql } from "drizzle-orm";
 import { index, integer, primaryKey, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 import { calendarDate, createdAt, id, updatedAt } from "./columns";
 
-export const ROLES = ["therapist", "preceptor", "educator", "manager", "admin"] as const;
-export type Role = (typeof ROLES)[number];
+import { ROLES } from "../../auth/roles";
+
+export { ROLES, type Role } from "../../auth/roles";
 
 export const organisations = sqliteTable("organisations", {
   id: id(),

@@ -1,0 +1,9 @@
+import type { Route } from "./+types/person-new";
+
+export async function loader(_: Route.LoaderArgs) {
+  return {};
+}
+
+export default function Page() {
+  return <h1 className="text-3xl font-semibold">In progress</h1>;
+}

@@ -1,0 +1,56 @@
+/**
+ * Tidemark's production server: react-router-serve's set-up (compression, immutable hashed
+ * assets, the request handler), plus one thing it lacks — the client's socket address,
+ * passed to the app in x-tidemark-client for per-client rate limits. Any such header sent
+ * by a client is removed first. Usage: node scripts/serve.mjs [build/server/index.js]
+ */
+import path from "node:path";
+import url from "node:url";
+import { createRequestHandler } from "@react-router/express";
+import { mkdirSync } from "node:fs";
+import { createClient } from "@libsql/client";
+import compression from "compression";
+import { drizzle } from "drizzle-orm/libsql";
+import { migrate } from "drizzle-orm/libsql/migrator";
+import express from "express";
+
+process.env.NODE_ENV = process.env.NODE_ENV ?? "production";
+
+/** Applies the committed migrations before the first request is taken. */
+export async function migrateDatabase(databaseUrl = process.env.DATABASE_URL ?? "file:./data/tidemark.db") {
+  if (databaseUrl.startsWith("file:")) mkdirSync(path.dirname(path.resolve(databaseUrl.slice(5).split("?")[0])), { recursive: true });
+  const client = createClient({ url: databaseUrl });
+  await client.execute("PRAGMA journal_mode = WAL");
+  await migrate(drizzle(client), { migrationsFolder: path.resolve(process.env.MIGRATIONS_DIR ?? "drizzle") });
+  client.close();
+}
+
+export async function startServer({ port = Number(process.env.PORT ?? 3000), host = process.env.HOST ?? "0.0.0.0", buildPath = "build/server/index.js" } = {}) {
+  await migrateDatabase();
+  const build = await import(url.pathToFileURL(path.resolve(buildPath)).href);
+  const app = express();
+  app.disable("x-powered-by");
+  app.use(compression());
+  const clientDir = path.resolve(path.dirname(buildPath), "..", "client");
+  app.use("/assets", express.static(path.join(clientDir, "assets"), { immutable: true, maxAge: "1y" }));
+  app.use(express.static(clientDir, { maxAge: "1h" }));
+  app.use((req, _res, next) => {
+    delete req.headers["x-tidemark-client"];
+    req.headers["x-tidemark-client"] = req.socket.remoteAddress ?? "unknown";
+    next();
+  });
+  app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV }));
+  return new Promise((resolve) => {
+    const server = app.listen(port, host, () => resolve(server));
+  });
+}
+
+if (import.meta.url === url.pathToFileURL(process.argv[1]).href) {
+  const server = await startServer({ buildPath: process.argv[2] ?? "build/server/index.js" });
+  const address = server.address();
+  console.log(`Tidemark is listening on http://localhost:${typeof address === "object" && address ? address.port : ""}`);
+  // SIGTERM: stop taking new connections, let requests in flight finish, then exit.
+  const stop = () => server.close(() => process.exit(0));
+  process.on("SIGTERM", stop);
+  process.on("SIGINT", stop);
+}
