@@ -1,6 +1,6 @@
 import { and, eq, gt, isNull } from "drizzle-orm";
 import { createCookie } from "react-router";
-import { env } from "~/config/env.server";
+import { env, type Env } from "~/config/env.server";
 import { recordAudit } from "~/db/audit.server";
 import { database } from "~/db/client.server";
 import { organisations, people, personRoles, sessions } from "~/db/schema";
@@ -14,9 +14,8 @@ let cookie: ReturnType<typeof createCookie> | undefined;
  * The session cookie holds only a signed session id. React Router's cookie defaults set just
  * Path and SameSite, so HttpOnly and Secure are set here explicitly (OWASP ASVS 4.0.3 V3.4).
  */
-export function sessionCookie() {
-  const e = env();
-  cookie ??= createCookie(SESSION_COOKIE_NAME, {
+export function buildSessionCookie(e: Env) {
+  return createCookie(SESSION_COOKIE_NAME, {
     httpOnly: true,
     sameSite: "lax",
     path: "/",
@@ -24,6 +23,10 @@ export function sessionCookie() {
     secrets: [e.sessionSecret],
     maxAge: e.sessionDays * 24 * 60 * 60,
   });
+}
+
+export function sessionCookie() {
+  cookie ??= buildSessionCookie(env());
   return cookie;
 }
 
