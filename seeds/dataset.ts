@@ -1,0 +1,74 @@
+/**
+ * The rows one organisation's scenario is made of, table by table, before they are written.
+ * Builders fill a Dataset in memory (pure, deterministic); seeds/apply.ts writes it.
+ */
+import type {
+  assignments,
+  checklists,
+  checklistVersions,
+  credentials,
+  credentialTypes,
+  exams,
+  examVersions,
+  organisations,
+  orientationPlanItems,
+  orientationPlans,
+  people,
+  personRoles,
+  personUnits,
+  regulatoryReferences,
+  requirements,
+  topics,
+  units,
+  waivers,
+} from "../app/db/schema";
+
+/** Tables in the order they are inserted (parents before children). */
+export type Dataset = {
+  organisations: (typeof organisations.$inferInsert)[];
+  units: (typeof units.$inferInsert)[];
+  people: (typeof people.$inferInsert)[];
+  personRoles: (typeof personRoles.$inferInsert)[];
+  personUnits: (typeof personUnits.$inferInsert)[];
+  topics: (typeof topics.$inferInsert)[];
+  regulatoryReferences: (typeof regulatoryReferences.$inferInsert)[];
+  credentialTypes: (typeof credentialTypes.$inferInsert)[];
+  exams: (typeof exams.$inferInsert)[];
+  examVersions: (typeof examVersions.$inferInsert)[];
+  checklists: (typeof checklists.$inferInsert)[];
+  checklistVersions: (typeof checklistVersions.$inferInsert)[];
+  requirements: (typeof requirements.$inferInsert)[];
+  credentials: (typeof credentials.$inferInsert)[];
+  waivers: (typeof waivers.$inferInsert)[];
+  assignments: (typeof assignments.$inferInsert)[];
+  orientationPlans: (typeof orientationPlans.$inferInsert)[];
+  orientationPlanItems: (typeof orientationPlanItems.$inferInsert)[];
+};
+
+export function emptyDataset(): Dataset {
+  return {
+    organisations: [],
+    units: [],
+    people: [],
+    personRoles: [],
+    personUnits: [],
+    topics: [],
+    regulatoryReferences: [],
+    credentialTypes: [],
+    exams: [],
+    examVersions: [],
+    checklists: [],
+    checklistVersions: [],
+    requirements: [],
+    credentials: [],
+    waivers: [],
+    assignments: [],
+    orientationPlans: [],
+    orientationPlanItems: [],
+  };
+}
+
+/** Row counts per table, for the summary and the audit detail. */
+export function countRows(data: Dataset): Record<keyof Dataset, number> {
+  return Object.fromEntries(Object.entries(data).map(([k, rows]) => [k, rows.length])) as Record<keyof Dataset, number>;
+}
