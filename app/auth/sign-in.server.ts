@@ -1,6 +1,5 @@
 import { compactDecrypt } from "jose";
 import { createCookie, redirect } from "react-router";
-import { Authenticator } from "remix-auth";
 import { TOTPStrategy } from "remix-auth-totp";
 import { createElement } from "react";
 import { env } from "~/config/env.server";
@@ -42,13 +41,16 @@ export async function readPendingSignIn(request: Request): Promise<string | null
 const issuedFor = new WeakMap<Request, string>();
 const verifiedFor = new WeakMap<Request, Extract<CodeCheck, { ok: true }>["record"]>();
 
-let authenticator: Authenticator<never> | undefined;
-function getAuthenticator() {
-  if (authenticator) return authenticator;
+/**
+ * The remix-auth TOTP strategy, called directly rather than through remix-auth's Authenticator:
+ * the Authenticator hands the strategy a copy of the Request, and our hand-offs above are keyed
+ * by the request object itself.
+ */
+let strategy: TOTPStrategy<never> | undefined;
+function getStrategy() {
+  if (strategy) return strategy;
   const e = env();
-  authenticator = new Authenticator<never>();
-  authenticator.use(
-    new TOTPStrategy(
+  strategy = new TOTPStrategy<never>(
       {
         secret: e.totpSecret,
         magicLinkPath: MAGIC_LINK_PATH,
@@ -91,16 +93,14 @@ function getAuthenticator() {
         headers.append("Set-Cookie", await pendingSignInCookie().serialize("", { maxAge: 0 }));
         throw redirect("/today", { headers });
       },
-    ),
-    "TOTP",
   );
-  return authenticator;
+  return strategy;
 }
 
 /** Runs the strategy; it always answers with a redirect, which we return with our cookie added. */
 async function runStrategy(request: Request): Promise<Response> {
   try {
-    await getAuthenticator().authenticate("TOTP", request);
+    await getStrategy().authenticate(request);
   } catch (thrown) {
     if (thrown instanceof Response) {
       const issued = issuedFor.get(request);
