@@ -46,35 +46,23 @@ export const PERMISSIONS = [
 ] as const;
 export type Permission = (typeof PERMISSIONS)[number];
 
+/** Sections every clinical role uses (PRODUCT.md's table: therapist through manager). */
+const STAFF: readonly Permission[] = [
+  "section:today",
+  "section:plan",
+  "section:exams",
+  "section:bench",
+  "section:checkoffs",
+  "section:credentials",
+  "section:clearance",
+];
+
 /** PRODUCT.md, "Sections, their addresses and who sees them", plus the actions each role takes. */
 export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
-  therapist: [
-    "section:today",
-    "section:plan",
-    "section:exams",
-    "section:bench",
-    "section:checkoffs",
-    "section:credentials",
-    "section:clearance",
-  ],
-  preceptor: [
-    "section:today",
-    "section:plan",
-    "section:exams",
-    "section:bench",
-    "section:checkoffs",
-    "section:credentials",
-    "section:clearance",
-    "checkoffs:observe",
-  ],
+  therapist: STAFF,
+  preceptor: [...STAFF, "checkoffs:observe"],
   educator: [
-    "section:today",
-    "section:plan",
-    "section:exams",
-    "section:bench",
-    "section:checkoffs",
-    "section:credentials",
-    "section:clearance",
+    ...STAFF,
     "section:bank",
     "section:team",
     "section:reports",
@@ -85,13 +73,7 @@ export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
     "reports:read",
   ],
   manager: [
-    "section:today",
-    "section:plan",
-    "section:exams",
-    "section:bench",
-    "section:checkoffs",
-    "section:credentials",
-    "section:clearance",
+    ...STAFF,
     "section:team",
     "section:reports",
     "assignments:write",
@@ -100,15 +82,7 @@ export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
     "credentials:verify",
     "reports:read",
   ],
-  admin: [
-    "section:today",
-    "section:bench",
-    "section:admin",
-    "org:settings",
-    "people:manage",
-    "roles:grant",
-    "api-tokens:manage",
-  ],
+  admin: ["section:today", "section:bench", "section:admin", "org:settings", "people:manage", "roles:grant", "api-tokens:manage"],
 };
 
 export function can(roles: readonly Role[], permission: Permission): boolean {
