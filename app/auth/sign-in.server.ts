@@ -19,6 +19,12 @@ export const MAGIC_LINK_PATH = "/login/magic";
 
 /** Points this browser at its own sign-in code record (signed; the record itself is server-side). */
 let signInCookie: ReturnType<typeof createCookie> | undefined;
+/**
+ * The pointer outlives the code by this much, so a code typed after its lifetime is answered
+ * "This code has expired" (from the server's record) rather than "no code request from this
+ * browser". Expiry itself is enforced on the server record, never by the cookie's lifetime.
+ */
+const PENDING_POINTER_GRACE_SECONDS = 60 * 60;
 export function pendingSignInCookie() {
   const e = env();
   signInCookie ??= createCookie("tm_signin", {
@@ -27,7 +33,7 @@ export function pendingSignInCookie() {
     path: "/login",
     secure: e.production,
     secrets: [e.sessionSecret],
-    maxAge: e.signInCodeTtlSeconds,
+    maxAge: e.signInCodeTtlSeconds + PENDING_POINTER_GRACE_SECONDS,
   });
   return signInCookie;
 }

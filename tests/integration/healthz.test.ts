@@ -4,14 +4,14 @@ import path from "node:path";
 import { describe, expect, it } from "vitest";
 import { openDatabase, setDatabaseForTests } from "~/db/client.server";
 import { loader } from "~/routes/api/healthz";
-import type { Route } from "~/routes/api/+types/healthz";
+
 import { args, getRequest } from "../setup/request";
 import { useEmptyDatabase } from "../setup/db";
 
 describe("GET /healthz", () => {
   it("answers 200 with status ok and db ok when the database reads", async () => {
     await useEmptyDatabase();
-    const res = await loader(args<Route.LoaderArgs>(getRequest("/healthz"), null));
+    const res = await loader(args<Parameters<typeof loader>[0]>(getRequest("/healthz"), null));
     expect(res.status).toBe(200);
     expect(await res.json()).toEqual({ status: "ok", db: "ok" });
   });
@@ -20,7 +20,7 @@ describe("GET /healthz", () => {
     // A database file without Tidemark's tables: the health query fails.
     const file = path.join(mkdtempSync(path.join(tmpdir(), "tidemark-broken-")), "b.db");
     setDatabaseForTests(openDatabase(`file:${file}`, { migrate: false }));
-    const res = await loader(args<Route.LoaderArgs>(getRequest("/healthz"), null));
+    const res = await loader(args<Parameters<typeof loader>[0]>(getRequest("/healthz"), null));
     expect(res.status).toBe(503);
     expect(await res.json()).toEqual({ status: "error", db: "error" });
   });
