@@ -1,0 +1,70 @@
+/**
+ * Calendar dates as ISO 'YYYY-MM-DD' text in the organisation's time zone (STYLE.md "Data").
+ * Pure and safe in the browser. Arithmetic goes through Date.UTC on the three numbers, never
+ * `new Date('2026-03-31')`, which is UTC midnight and shows the 30th in Chicago
+ * (shared/STACK.md "Dates"). Month arithmetic clamps to the end of the month, because
+ * JavaScript and SQLite both turn 31 January + 1 month into 3 March (same source).
+ */
+export type IsoDate = string;
+
+const ISO_DATE = /^(\d{4})-(\d{2})-(\d{2})$/;
+
+export function daysInMonth(year: number, month: number): number {
+  return new Date(Date.UTC(year, month, 0)).getUTCDate();
+}
+
+/** The three numbers of a calendar date; throws on anything that is not a real date. */
+export function parseIsoDate(value: string): { year: number; month: number; day: number } {
+  const match = ISO_DATE.exec(value);
+  if (!match) throw new RangeError(`not a YYYY-MM-DD date: ${value}`);
+  const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])];
+  if (month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) throw new RangeError(`no such date: ${value}`);
+  return { year, month, day };
+}
+
+export function isIsoDate(value: unknown): value is IsoDate {
+  if (typeof value !== "string") return false;
+  try {
+    parseIsoDate(value);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+export function formatIsoDate(year: number, month: number, day: number): IsoDate {
+  return `${String(year).padStart(4, "0")}-${String(month).padStart(2, "0")}-${String(day).padStart(2, "0")}`;
+}
+
+function utcDay(value: IsoDate): number {
+  const { year, month, day } = parseIsoDate(value);
+  return Date.UTC(year, month - 1, day) / 86_400_000;
+}
+
+/** Whole days from `from` to `to`: positive when `to` is later. */
+export function daysBetween(from: IsoDate, to: IsoDate): number {
+  return Math.round(utcDay(to) - utcDay(from));
+}
+
+export function addDays(value: IsoDate, days: number): IsoDate {
+  const { year, month, day } = parseIsoDate(value);
+  const t = new Date(Date.UTC(year, month - 1, day + days));
+  return formatIsoDate(t.getUTCFullYear(), t.getUTCMonth() + 1, t.getUTCDate());
+}
+
+/** Whole months; a day past the end of the target month becomes its last day. */
+export function addMonths(value: IsoDate, months: number): IsoDate {
+  const { year, month, day } = parseIsoDate(value);
+  const index = year * 12 + (month - 1) + months;
+  const y = Math.floor(index / 12);
+  const m = index - y * 12 + 1;
+  return formatIsoDate(y, m, Math.min(day, daysInMonth(y, m)));
+}
+
+/** The calendar date an instant falls on in an IANA time zone (e.g. "today" for the organisation). */
+export function calendarDateIn(timeZone: string, instant: Date): IsoDate {
+  // en-CA formats as YYYY-MM-DD; formatToParts keeps us independent of that locale detail.
+  const parts = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).formatToParts(instant);
+  const part = (type: string) => Number(parts.find((p) => p.type === type)?.value);
+  return formatIsoDate(part("year"), part("month"), part("day"));
+}

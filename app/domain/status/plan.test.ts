@@ -1,0 +1,140 @@
+import { describe, expect, it } from "vitest";
+import { bestCredential, buildPlan, requirementApplies, validThroughAfter, type PlanInput, type PlanRequirement } from "./plan";
+
+/*
+ * Requirements apply by role and unit (PRODUCT.md "Requirement"; schema: unit null = everyone,
+ * role null = any role). A credential requirement is met by a credential of its type.
+ * Recurrence arithmetic (every 12 months: due again on the same date a year later, still valid
+ * that day) is common practice, no source; month ends clamp (shared/STACK.md "Dates").
+ */
+
+const req = (over: Partial<PlanRequirement> & Pick<PlanRequirement, "id" | "name" | "kind">): PlanRequirement => ({
+  examId: null,
+  checklistId: null,
+  credentialTypeId: null,
+  recurrence: null,
+  unitId: null,
+  role: null,
+  active: true,
+  ...over,
+});
+
+describe("which requirements apply", () => {
+  const person = { roles: ["therapist"], unitIds: ["icu"] };
+  it.each([
+    { name: "everyone (no unit, no role)", r: req({ id: "a", name: "a", kind: "exam" }), applies: true },
+    { name: "the person's role", r: req({ id: "a", name: "a", kind: "exam", role: "therapist" }), applies: true },
+    { name: "another role", r: req({ id: "a", name: "a", kind: "exam", role: "educator" }), applies: false },
+    { name: "the person's unit", r: req({ id: "a", name: "a", kind: "exam", unitId: "icu" }), applies: true },
+    { name: "another unit", r: req({ id: "a", name: "a", kind: "exam", unitId: "nicu" }), applies: false },
+    { name: "unit and role both must match", r: req({ id: "a", name: "a", kind: "exam", unitId: "icu", role: "manager" }), applies: false },
+    { name: "an inactive requirement", r: req({ id: "a", name: "a", kind: "exam", active: false }), applies: false },
+  ])("$name → $applies", ({ r, applies }) => {
+    expect(requirementApplies(r, person)).toBe(applies);
+  });
+});
+
+describe("recurrence and the credential that counts", () => {
+  it.each([
+    { completedOn: "2026-02-28", recurrence: "every-12-months", expected: "2027-02-28" },
+    { completedOn: "2028-02-29", recurrence: "every-12-months", expected: "2029-02-28" },
+    { completedOn: "2026-05-31", recurrence: "every-24-months", expected: "2028-05-31" },
+    { completedOn: "2026-05-31", recurrence: "once", expected: null },
+    { completedOn: "2026-05-31", recurrence: "at-hire", expected: null },
+  ] as const)("$recurrence after $completedOn → $expected", ({ completedOn, recurrence, expected }) => {
+    expect(validThroughAfter(completedOn, recurrence)).toBe(expected);
+  });
+
+  it("a card that never expires beats any dated one; otherwise the latest valid-through", () => {
+    const c = (id: string, validThrough: string | null) => ({ id, validThrough, issuedOn: "2020-01-01" });
+    expect(bestCredential([c("old", "2025-01-31"), c("new", "2027-01-31")])?.id).toBe("new");
+    expect(bestCredential([c("dated", "2099-01-31"), c("forever", null), c("later", "2100-01-31")])?.id).toBe("forever");
+  });
+});
+
+describe("a therapist's plan on 2026-12-02", () => {
+  const today = "2026-12-02";
+  const cred = (id: string, typeId: string, typeName: string, validThrough: string | null) => ({
+    id,
+    credentialTypeId: typeId,
+    typeName,
+    number: `N-${id}`,
+    issuer: "Issuer",
+    issuedOn: "2025-01-01",
+    validThrough,
+    verified: true,
+  });
+  const input: PlanInput = {
+    person: { roles: ["therapist"], unitIds: ["icu"] },
+    requirements: [
+      req({ id: "r-licence", name: "State licence", kind: "credential", credentialTypeId: "licence", role: "therapist" }),
+      req({ id: "r-bls", name: "Basic life support", kind: "credential", credentialTypeId: "bls", role: "therapist" }),
+      req({ id: "r-acls", name: "Advanced cardiac life support", kind: "credential", credentialTypeId: "acls", unitId: "icu", role: "therapist" }),
+      req({ id: "r-nrp", name: "Neonatal resuscitation", kind: "credential", credentialTypeId: "nrp", unitId: "nicu", role: "therapist" }),
+      req({ id: "r-exam", name: "Annual exam", kind: "exam", examId: "exam-1", recurrence: "every-12-months", role: "therapist" }),
+      req({ id: "r-check", name: "Annual check-off", kind: "checklist", checklistId: "cl-1", recurrence: "every-12-months", role: "therapist" }),
+      req({ id: "r-pals", name: "Pediatric advanced life support", kind: "credential", credentialTypeId: "pals", role: "therapist" }),
+    ],
+    credentials: [
+      cred("lic", "licence", "State licence", "2028-05-31"),
+      cred("bls-old", "bls", "Basic life support", "2024-12-31"),
+      cred("bls", "bls", "Basic life support", "2027-01-31"),
+      cred("acls", "acls", "Advanced cardiac life support", "2026-11-30"),
+      cred("board", "board", "Board credential", null),
+    ],
+    assignments: [
+      { id: "a-exam", kind: "exam", refId: "exam-1", requirementId: "r-exam", title: "Annual exam", dueOn: "2026-12-23" },
+      { id: "a-check", kind: "checklist", refId: "cl-1", requirementId: "r-check", title: "Annual check-off", dueOn: "2026-11-23" },
+      { id: "a-extra", kind: "checklist", refId: "cl-2", requirementId: null, title: "Circuit change", dueOn: "2027-02-01" },
+    ],
+    completions: [],
+    waivers: [{ requirementId: "r-acls", endsOn: "2027-01-01" }],
+    extensions: [],
+  };
+
+  const plan = buildPlan(input, { today });
+
+  it("lists applying requirements, unlinked work and extra credentials in due-date order", () => {
+    expect(plan.map((r) => [r.title, r.result.status, r.result.date])).toEqual([
+      ["Annual check-off", "lapsed", "2026-11-23"],
+      ["Advanced cardiac life support", "waived", "2026-11-30"],
+      ["Annual exam", "not-started", "2026-12-23"],
+      ["Basic life support", "due-soon", "2027-01-31"],
+      ["Circuit change", "not-started", "2027-02-01"],
+      ["State licence", "current", "2028-05-31"],
+      ["Pediatric advanced life support", "not-started", null],
+      ["Board credential", "current", null],
+    ]);
+  });
+
+  it("says how long ago the lapsed check-off fell due", () => {
+    expect(plan[0].result.daysLapsed).toBe(9);
+    expect(plan[0].dateMeaning).toBe("due");
+  });
+
+  it("counts the newest card of a type, not the old one", () => {
+    const bls = plan.find((r) => r.title === "Basic life support")!;
+    expect(bls.credential?.number).toBe("N-bls");
+    expect(bls.dateMeaning).toBe("valid-through");
+  });
+
+  it("leaves out requirements of another unit", () => {
+    expect(plan.some((r) => r.title === "Neonatal resuscitation")).toBe(false);
+  });
+
+  it("shows a met annual requirement as held until a year after completion, and an extension moves a due date", () => {
+    const done = buildPlan(
+      { ...input, completions: [{ kind: "exam", refId: "exam-1", completedOn: "2026-01-15" }], extensions: [{ requirementId: "r-check", newDueOn: "2026-12-15" }] },
+      { today },
+    );
+    const exam = done.find((r) => r.title === "Annual exam")!;
+    expect(exam).toMatchObject({ dateMeaning: "valid-through", result: { status: "due-soon", date: "2027-01-15" } });
+    const check = done.find((r) => r.title === "Annual check-off")!;
+    expect(check).toMatchObject({ dateMeaning: "due", extendedTo: "2026-12-15", result: { status: "not-started", date: "2026-12-15" } });
+  });
+
+  it("a lapsed completion with new work assigned shows the new due date", () => {
+    const lapsedDone = buildPlan({ ...input, completions: [{ kind: "exam", refId: "exam-1", completedOn: "2025-10-01" }] }, { today });
+    expect(lapsedDone.find((r) => r.title === "Annual exam")).toMatchObject({ dateMeaning: "due", result: { status: "not-started", date: "2026-12-23" } });
+  });
+});
