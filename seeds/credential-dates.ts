@@ -41,12 +41,12 @@ export function validThroughFor(terms: ValidityTerms, issuedOn: IsoDate, birthMo
     case "months-exact": {
       const anniversary = addMonths(issuedOn, rule.months);
       // A clamped anniversary (29 February in a common year) already is the last day of the term.
-      return parseIsoDate(anniversary).d < parseIsoDate(issuedOn).d ? anniversary : addDays(anniversary, -1);
+      return parseIsoDate(anniversary).day < parseIsoDate(issuedOn).day ? anniversary : addDays(anniversary, -1);
     }
     case "birth-month": {
       if (!birthMonth) return endOfMonth(addMonths(issuedOn, rule.months));
       const limit = addMonths(issuedOn, rule.months);
-      const { y, m } = parseIsoDate(limit);
+      const { year: y, month: m } = parseIsoDate(limit);
       const year = birthMonth <= m ? y : y - 1;
       return endOfMonth(formatIsoDate(year, birthMonth, 1));
     }

@@ -68,3 +68,9 @@ export function calendarDateIn(timeZone: string, instant: Date): IsoDate {
   const part = (type: string) => Number(parts.find((p) => p.type === type)?.value);
   return formatIsoDate(part("year"), part("month"), part("day"));
 }
+
+/** The last day of the date's month. */
+export function endOfMonth(value: IsoDate): IsoDate {
+  const { year, month } = parseIsoDate(value);
+  return formatIsoDate(year, month, daysInMonth(year, month));
+}
