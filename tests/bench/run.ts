@@ -1,0 +1,236 @@
+/**
+ * `npm run bench` — Tidemark's performance figures (issue 2 item 11; issue 3 acceptance):
+ *
+ *   1. the simulator: 60 s of breathing per mode (target under 5 ms each);
+ *   2. a fresh production build of the working tree in a temporary folder (tests/bench/build.ts
+ *      says why not build/) and the JavaScript the Bench route adds, gzipped (target under 60 KB);
+ *   3. HTTP: the large organisation (--people 2000) in its own database file, the production
+ *      server on loopback, autocannon on the sign-in page, Today and Team as the manager, and
+ *      /healthz, compared with STACK.md's reference ceilings for context.
+ *
+ * Everything goes to bench-results.json (git-ignored) with the machine and the settings, and
+ * the change against the previous file is printed. Targets are reported, never asserted:
+ * timing belongs here, not in the test suite. The exit status is 1 only when a part could
+ * not be measured.
+ *
+ * Options: --people N (2000) --duration S (10) --warmup S (3) --connections N (20)
+ *          --port N (3200; another free port when taken) --runs N (50, simulator)
+ */
+import { execSync } from "node:child_process";
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import os from "node:os";
+import path from "node:path";
+import { parseArgs } from "node:util";
+import { defaultSeedDate } from "../../seeds/seed";
+import { buildPrivateCopy, type BenchBuild } from "./build";
+import { measureBenchBundle } from "./bundle-size";
+import { measureRoute, stopLoad, type HttpFigure, type LoadSettings, type RouteTarget } from "./http";
+import { compareWithPrevious, formatBundle, formatHttp, formatSim, type BenchResults } from "./report";
+import { choosePort, httpGet, startBenchServer, type BenchServer } from "./server";
+import { prepareBenchDatabase, sessionCookieHeader } from "./session";
+import { timeModes } from "./sim";
+
+const PROJECT_ROOT = path.resolve(import.meta.dirname, "..", "..");
+const BENCH_DIR = path.join(PROJECT_ROOT, "data", "bench");
+const RESULTS_FILE = path.join(PROJECT_ROOT, "bench-results.json");
+// Bench-only secrets: the server refuses to start in production without them (issue 2).
+const SESSION_SECRET = "tidemark-bench-session-secret-not-for-production";
+const TOTP_SECRET = "fedcba9876543210".repeat(4); // 64 hex characters, as the sign-in strategy requires
+
+const { values: flags } = parseArgs({
+  options: {
+    people: { type: "string", default: "2000" },
+    duration: { type: "string", default: "10" },
+    warmup: { type: "string", default: "3" },
+    connections: { type: "string", default: "20" },
+    port: { type: "string", default: "3200" },
+    runs: { type: "string", default: "50" },
+  },
+});
+const positive = (name: string, raw: string | undefined) => {
+  const n = Number(raw);
+  if (!Number.isInteger(n) || n < 0) {
+    console.error(`--${name} must be a whole number, got "${raw}".`);
+    process.exit(2);
+  }
+  return n;
+};
+const load: LoadSettings = { connections: positive("connections", flags.connections), durationS: positive("duration", flags.duration), warmupS: positive("warmup", flags.warmup), timeoutS: 10 };
+const peopleCount = positive("people", flags.people);
+const simRuns = Math.max(1, positive("runs", flags.runs));
+
+let server: BenchServer | undefined;
+let build: BenchBuild | undefined;
+let interrupted = false;
+// `on`, not `once`: Ctrl-C reaches npm, tsx and this process, and tsx relays it once more;
+// a second SIGINT without a handler would end the process before the server is stopped.
+process.on("SIGINT", () => {
+  if (interrupted) return;
+  interrupted = true;
+  console.error("\nInterrupted: stopping the load and the bench server.");
+  stopLoad();
+  void (server?.stop() ?? Promise.resolve()).finally(() => {
+    build?.remove();
+    process.exit(130);
+  });
+});
+
+const errors: string[] = [];
+const message = (error: unknown) => (error instanceof Error ? error.message : String(error));
+const section = (title: string) => console.log(`\n== ${title}`);
+
+function gitInfo(): BenchResults["git"] {
+  try {
+    const commit = execSync("git rev-parse --short HEAD", { cwd: PROJECT_ROOT, encoding: "utf8" }).trim();
+    const dirty = execSync("git status --porcelain", { cwd: PROJECT_ROOT, encoding: "utf8" }).trim() !== "";
+    return { commit, uncommittedChanges: dirty };
+  } catch {
+    return { commit: "unknown", uncommittedChanges: true };
+  }
+}
+
+const escapeHtml = (s: string) => s.replace(/&/g, "&amp;").replace(/</g, "&lt;").replace(/>/g, "&gt;").replace(/"/g, "&quot;").replace(/'/g, "&#x27;");
+
+/** A route is measured only when one request gets what a person would get: 200, and signed in where it must be. */
+async function check(baseUrl: string, target: RouteTarget, mustShow?: string): Promise<void> {
+  const answer = await httpGet(`${baseUrl}${target.path}`, target.headers);
+  if (answer.status !== 200) {
+    throw new Error(`expected 200 before measuring, got ${answer.status}${answer.headers.location ? ` → ${answer.headers.location}` : ""}.`);
+  }
+  if (mustShow && !answer.body.includes(mustShow) && !answer.body.includes(escapeHtml(mustShow))) {
+    throw new Error(`the page does not show "${mustShow}" — the session cookie was not accepted.`);
+  }
+}
+
+async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unknown>): Promise<HttpFigure[]> {
+  mkdirSync(BENCH_DIR, { recursive: true });
+  const today = defaultSeedDate();
+  console.log(`Seeding the large organisation (${peopleCount} people, demo day ${today}) into data/bench/tidemark.db …`);
+  const db = await prepareBenchDatabase({ dbFile: path.join(BENCH_DIR, "tidemark.db"), people: peopleCount, today });
+  console.log(`  seeded in ${(db.seedMs / 1000).toFixed(1)} s; session for ${db.manager.email} (${db.manager.name}).`);
+  Object.assign(settings, { people: peopleCount, seedToday: today, seedS: Math.round(db.seedMs / 100) / 10 });
+
+  const port = await choosePort(positive("port", flags.port));
+  server = await startBenchServer({
+    projectRoot: PROJECT_ROOT,
+    serverEntry: benchBuild.serverEntry,
+    port,
+    logFile: path.join(BENCH_DIR, "server.log"),
+    env: { NODE_ENV: "production", DATABASE_URL: db.databaseUrl, DATA_DIR: path.relative(PROJECT_ROOT, BENCH_DIR), SESSION_SECRET, TOTP_SECRET },
+  });
+  console.log(`Server PID ${server.pid} on ${server.baseUrl} (log: data/bench/server.log).`);
+  settings.port = port;
+
+  const cookie = { Cookie: await sessionCookieHeader(db.sessionId, SESSION_SECRET) };
+  const small = { label: "page, small loader", requestsPerSecond: 670 };
+  const oneQuery = { label: "page, one SQLite query", requestsPerSecond: 480 };
+  const targets: { target: RouteTarget; mustShow?: string }[] = [
+    { target: { name: "GET /login (sign-in page)", path: "/login", reference: small } },
+    { target: { name: "GET /today (manager)", path: "/today", headers: cookie, reference: oneQuery }, mustShow: db.manager.name },
+    { target: { name: "GET /team (manager)", path: "/team", headers: cookie, reference: oneQuery }, mustShow: db.manager.name },
+    { target: { name: "GET /healthz", path: "/healthz", reference: { label: "JSON resource route", requestsPerSecond: 1370 } } },
+  ];
+  const benchPage = await httpGet(`${server.baseUrl}/bench`, cookie).catch((e: unknown) => ({ status: 0, error: message(e) }));
+  console.log(`GET /bench as the manager answers ${benchPage.status} (checked, not measured).`);
+
+  const figures: HttpFigure[] = [];
+  for (const { target, mustShow } of targets) {
+    if (interrupted) break;
+    try {
+      await check(server.baseUrl, target, mustShow);
+      console.log(`Measuring ${target.name}: ${load.warmupS} s warm-up, ${load.durationS} s at ${load.connections} connections …`);
+      figures.push(await measureRoute(server.baseUrl, target, load));
+    } catch (error) {
+      if (interrupted) break;
+      errors.push(`HTTP ${target.name}: ${message(error)}`);
+      console.error(`  ${message(error)}`);
+    }
+  }
+  return figures;
+}
+
+async function main(): Promise<void> {
+  const started = performance.now();
+  const settings: Record<string, unknown> = { ...load, simRuns, simWarmupRuns: 10 };
+  const results: BenchResults = {
+    format: 1,
+    timestamp: new Date().toISOString(),
+    machine: {
+      cpus: os.cpus().length,
+      cpuModel: os.cpus()[0]?.model ?? "unknown",
+      platform: os.platform(),
+      release: os.release(),
+      node: process.version,
+      totalMemoryGB: Math.round((os.totalmem() / 1024 ** 3) * 10) / 10,
+      loadAverage1m: Math.round(os.loadavg()[0] * 100) / 100,
+    },
+    git: gitInfo(),
+    settings,
+    http: [],
+    sim: [],
+    bundle: null,
+    errors,
+  };
+
+  section("Simulator: 60 s of breathing per mode");
+  try {
+    results.sim = timeModes(path.join(PROJECT_ROOT, "seeds", "scenarios"), { runs: simRuns, warmupRuns: 10 });
+    console.log(formatSim(results.sim));
+  } catch (error) {
+    errors.push(`Simulator: ${message(error)}`);
+  }
+
+  section("Production build (fresh, of the working tree, in a temporary folder)");
+  try {
+    build = await buildPrivateCopy(PROJECT_ROOT);
+    settings.build = `fresh react-router build of the working tree (${build.files} files) in a temporary copy, ${(build.buildMs / 1000).toFixed(1)} s`;
+    console.log(settings.build);
+  } catch (error) {
+    errors.push(`Build: ${message(error)}`);
+  }
+
+  if (build) {
+    section("Bench page JavaScript beyond the shell");
+    try {
+      results.bundle = measureBenchBundle(build.clientDir);
+      console.log(formatBundle(results.bundle));
+    } catch (error) {
+      errors.push(`Bundle size: ${message(error)}`);
+    }
+
+    section("HTTP (production build, loopback)");
+    try {
+      results.http = await measureHttp(build, settings);
+    } catch (error) {
+      errors.push(`HTTP: ${message(error)}`);
+    } finally {
+      await server?.stop();
+      if (server) console.log(`Server PID ${server.pid} stopped.`);
+      build.remove();
+    }
+    if (results.http.length > 0) {
+      console.log(formatHttp(results.http));
+      console.log("p50/p95/p99 from every response time (nearest rank); no compression requested (autocannon sends no Accept-Encoding).");
+    }
+  }
+
+  const previous = existsSync(RESULTS_FILE) ? (JSON.parse(readFileSync(RESULTS_FILE, "utf8")) as BenchResults) : null;
+  writeFileSync(RESULTS_FILE, `${JSON.stringify(results, null, 2)}\n`);
+  section("Results");
+  console.log(`Wrote bench-results.json (${results.machine.cpus} CPUs, node ${results.machine.node}, load ${results.machine.loadAverage1m}) in ${((performance.now() - started) / 1000).toFixed(0)} s.`);
+  if (previous?.format === results.format) console.log(compareWithPrevious(previous, results).join("\n"));
+  else if (previous) console.log("The previous bench-results.json has another format: no comparison.");
+  else console.log("No previous bench-results.json: nothing to compare with.");
+
+  if (errors.length > 0) {
+    console.error(`\nNot measured:\n${errors.map((e) => `  - ${e}`).join("\n")}`);
+    process.exitCode = 1;
+  }
+}
+
+main().catch(async (error: unknown) => {
+  console.error(message(error));
+  await server?.stop();
+  build?.remove();
+  process.exit(1);
+});
