@@ -18,6 +18,8 @@ export type Database = {
   db: Db;
   /** Runs `fn` in a write transaction, one at a time (see `createWriter`). */
   write: <T>(fn: (tx: Tx) => Promise<T>) => Promise<T>;
+  /** Counts the write transactions this process has committed: read caches key on it. */
+  generation: () => number;
   close: () => void;
 };
 
@@ -34,11 +36,16 @@ function ensureFolder(url: string) {
  */
 export function createWriter(db: Db) {
   let tail: Promise<unknown> = Promise.resolve();
-  return function write<T>(fn: (tx: Tx) => Promise<T>): Promise<T> {
-    const run = tail.then(() => db.transaction(fn));
+  let committed = 0;
+  function write<T>(fn: (tx: Tx) => Promise<T>): Promise<T> {
+    const run = tail.then(() => db.transaction(fn)).finally(() => {
+      // Counted on failure too: a rolled-back write may still have raced a cached read.
+      committed += 1;
+    });
     tail = run.catch(() => undefined);
     return run;
-  };
+  }
+  return { write, generation: () => committed };
 }
 
 export async function openDatabase(url: string, options: { migrate?: boolean } = {}): Promise<Database> {
@@ -51,7 +58,8 @@ export async function openDatabase(url: string, options: { migrate?: boolean } =
   if (options.migrate !== false) {
     await migrate(db, { migrationsFolder: path.resolve(process.env.MIGRATIONS_DIR ?? "drizzle") });
   }
-  return { client, db, write: createWriter(db), close: () => client.close() };
+  const writer = createWriter(db);
+  return { client, db, write: writer.write, generation: writer.generation, close: () => client.close() };
 }
 
 let shared: Promise<Database> | undefined;

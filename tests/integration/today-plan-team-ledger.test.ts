@@ -21,8 +21,8 @@ describe("Team", () => {
     const kv = viewers.manager.org.id;
     // Narrow the demo manager (all four units) to Emergency alone in this test's private copy.
     const [emergency] = await world.db.db.select({ id: units.id }).from(units).where(and(eq(units.orgId, kv), eq(units.name, "Emergency")));
-    await world.db.db.delete(personUnits).where(and(eq(personUnits.personId, viewers.manager.person.id), eq(personUnits.relation, "manages")));
-    await world.db.db.insert(personUnits).values({ personId: viewers.manager.person.id, unitId: emergency.id, orgId: kv, relation: "manages" });
+    await world.db.write((tx) => tx.delete(personUnits).where(and(eq(personUnits.personId, viewers.manager.person.id), eq(personUnits.relation, "manages"))));
+    await world.db.write((tx) => tx.insert(personUnits).values({ personId: viewers.manager.person.id, unitId: emergency.id, orgId: kv, relation: "manages" }));
     try {
       const home = await world.db.db.select({ id: people.id }).from(people).where(and(eq(people.orgId, kv), eq(people.homeUnitId, emergency.id)));
       const members = await world.db.db.select({ id: personUnits.personId }).from(personUnits).where(and(eq(personUnits.unitId, emergency.id), eq(personUnits.relation, "member")));
@@ -35,9 +35,9 @@ describe("Team", () => {
       expect(data.team.rows.some((r) => r.email === "preceptor@kestrelvalley.test")).toBe(true);
       expect(data.team.rows.some((r) => r.email === "therapist@kestrelvalley.test")).toBe(false);
     } finally {
-      await world.db.db.delete(personUnits).where(and(eq(personUnits.personId, viewers.manager.person.id), eq(personUnits.relation, "manages")));
+      await world.db.write((tx) => tx.delete(personUnits).where(and(eq(personUnits.personId, viewers.manager.person.id), eq(personUnits.relation, "manages"))));
       const all = await world.db.db.select({ id: units.id }).from(units).where(eq(units.orgId, kv));
-      await world.db.db.insert(personUnits).values(all.map((u) => ({ personId: viewers.manager.person.id, unitId: u.id, orgId: kv, relation: "manages" as const })));
+      await world.db.write((tx) => tx.insert(personUnits).values(all.map((u) => ({ personId: viewers.manager.person.id, unitId: u.id, orgId: kv, relation: "manages" as const }))));
     }
   });
 
@@ -112,7 +112,7 @@ describe("Team", () => {
       homeUnitId: floors.id,
       hireDate: "2024-01-15",
     }));
-    await world.db.db.insert(people).values(extra);
+    await world.db.write((tx) => tx.insert(people).values(extra));
     try {
       const pages = await Promise.all([1, 2, 3].map((n) => team(viewers.manager, `?sort=hire&page=${n}`)));
       expect(pages.map((p) => p.team.rows.length)).toEqual([50, 50, 2]);
@@ -128,7 +128,7 @@ describe("Team", () => {
       expect(searched.team).toMatchObject({ matching: 60, page: 2, pageCount: 2 });
       expect(searched.team.rows).toHaveLength(10);
     } finally {
-      await world.db.db.delete(people).where(inArray(people.id, extra.map((p) => p.id)));
+      await world.db.write((tx) => tx.delete(people).where(inArray(people.id, extra.map((p) => p.id))));
     }
   });
 

@@ -9,6 +9,7 @@
  */
 import { sql, type SQL } from "drizzle-orm";
 import { database } from "~/db/client.server";
+import { cachedRead } from "~/db/read-cache.server";
 import { statusThresholds, type CredentialCounts, type StatusOptions } from "~/domain/status";
 
 /**
@@ -78,8 +79,13 @@ export async function summariseCredentials(orgId: string, options: StatusOptions
 
 export type UnitTotals = { people: number; lapsed: number; dueSoon: number };
 
-/** Active people of some units and the lapsed / due soon credentials they hold, in one query. */
+/** Active people of some units and the lapsed / due soon credentials they hold (cached until the next write). */
 export async function totalsForUnits(orgId: string, unitIds: readonly string[], options: StatusOptions): Promise<UnitTotals> {
+  const key = JSON.stringify(["unit-totals", orgId, unitIds, options]);
+  return cachedRead(await database(), key, () => readTotalsForUnits(orgId, unitIds, options));
+}
+
+async function readTotalsForUnits(orgId: string, unitIds: readonly string[], options: StatusOptions): Promise<UnitTotals> {
   const { db } = await database();
   const [row] = await db.all<{ people: number; lapsed: number | null; due_soon: number | null }>(sql`
     with ${credentialSummaryCtes(orgId, options)}

@@ -6,6 +6,7 @@
  */
 import { and, asc, eq, inArray, sql, type SQL } from "drizzle-orm";
 import { database } from "~/db/client.server";
+import { cachedRead } from "~/db/read-cache.server";
 import { personRoles, personUnits, units } from "~/db/schema";
 import { isRole, ROLES, type Role } from "~/auth/roles";
 import type { CredentialCounts, IsoDate, StatusOptions } from "~/domain/status";
@@ -84,8 +85,13 @@ type PageRow = {
   waived: number | null;
 };
 
-/** One page of the Team ledger for the viewer's organisation and scope. */
+/** One page of the Team ledger for the viewer's organisation and scope (cached until the next write). */
 export async function listTeam(orgId: string, scope: TeamScope, query: TeamQuery, options: StatusOptions): Promise<TeamPage> {
+  const key = JSON.stringify(["team", orgId, scope, query, options]);
+  return cachedRead(await database(), key, () => readTeamPage(orgId, scope, query, options));
+}
+
+async function readTeamPage(orgId: string, scope: TeamScope, query: TeamQuery, options: StatusOptions): Promise<TeamPage> {
   const { db } = await database();
   const inScope = onUnits(orgId, scope.kind === "units" ? scope.units.map((u) => u.id) : null);
   const search = matchesSearch(query.q);
