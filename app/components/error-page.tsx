@@ -21,6 +21,7 @@ export function ErrorPage({ status, message }: { status: number; message?: strin
   const copy = COPY[status] ?? { title: `Error ${status}`, body: "This request could not be completed." };
   return (
     <main id="main" className="mx-auto flex min-h-screen max-w-xl flex-col justify-center gap-4 px-6 py-16">
+      <title>{`${copy.title} · Tidemark`}</title>
       <ProductMark />
       <p className="text-sm font-semibold tracking-wide text-coral uppercase">Error {status}</p>
       <h1 className="text-3xl font-semibold">{copy.title}</h1>
