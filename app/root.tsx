@@ -42,8 +42,9 @@ export default function App() {
 export function ErrorBoundary() {
   const error = useRouteError();
   if (isRouteErrorResponse(error)) {
-    const message = typeof error.data === "object" && error.data && "message" in error.data ? String(error.data.message) : undefined;
-    return <ErrorPage status={error.status} message={message} />;
+    const payload = typeof error.data === "object" && error.data ? (error.data as { message?: unknown; signedIn?: unknown }) : {};
+    const message = typeof payload.message === "string" ? payload.message : undefined;
+    return <ErrorPage status={error.status} message={message} signedIn={typeof payload.signedIn === "boolean" ? payload.signedIn : undefined} />;
   }
   if (import.meta.env.DEV && error instanceof Error) console.error(error);
   return <ErrorPage status={500} />;

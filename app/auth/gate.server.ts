@@ -3,12 +3,16 @@ import { viewerContext, type Viewer } from "./context";
 import { can, type Permission } from "./roles";
 import { clearSessionCookie, getSession, SESSION_COOKIE_NAME } from "./session.server";
 
+/** Error payloads say whether someone is signed in, so our error page can offer sign-out. */
+export type ErrorPayload = { message: string; signedIn?: boolean };
+
+/** A 403 is only ever answered to a signed-in person (anonymous visitors are sent to sign in). */
 export function forbidden(message = "Your roles do not include this page."): never {
-  throw data({ message }, { status: 403 });
+  throw data({ message, signedIn: true } satisfies ErrorPayload, { status: 403 });
 }
 
-export function notFound(message = "We could not find that page."): never {
-  throw data({ message }, { status: 404 });
+export function notFound(message = "We could not find that page.", signedIn = false): never {
+  throw data({ message, signedIn } satisfies ErrorPayload, { status: 404 });
 }
 
 function signInRedirect(request: Request): never {

@@ -1,4 +1,4 @@
-import { Link } from "react-router";
+import { Form, Link } from "react-router";
 import { ProductMark } from "./product-mark";
 
 const COPY: Record<number, { title: string; body: string }> = {
@@ -17,7 +17,7 @@ const COPY: Record<number, { title: string; body: string }> = {
   },
 };
 
-export function ErrorPage({ status, message }: { status: number; message?: string }) {
+export function ErrorPage({ status, message, signedIn }: { status: number; message?: string; signedIn?: boolean }) {
   const copy = COPY[status] ?? { title: `Error ${status}`, body: "This request could not be completed." };
   return (
     <main id="main" className="mx-auto flex min-h-screen max-w-xl flex-col justify-center gap-4 px-6 py-16">
@@ -27,11 +27,18 @@ export function ErrorPage({ status, message }: { status: number; message?: strin
       <h1 className="text-3xl font-semibold">{copy.title}</h1>
       {message ? <p className="text-lg">{message}</p> : null}
       <p className="text-muted">{copy.body}</p>
-      <p>
-        <Link to="/today" className="font-semibold">
-          Go to Today
+      <div className="flex flex-wrap items-center gap-4">
+        <Link to={signedIn === false ? "/login" : "/today"} className="font-semibold">
+          {signedIn === false ? "Sign in" : "Go to Today"}
         </Link>
-      </p>
+        {signedIn ? (
+          <Form method="post" action="/logout">
+            <button type="submit" className="min-h-11 rounded-md px-3 font-semibold text-sea underline underline-offset-2 hover:bg-sea-wash">
+              Sign out
+            </button>
+          </Form>
+        ) : null}
+      </div>
     </main>
   );
 }

@@ -67,6 +67,8 @@ test.describe("role gating", () => {
       await expect(page.getByRole("heading", { level: 1 })).toHaveText("This page is not part of your roles");
       await expect(page.getByText("Error 403")).toBeVisible();
       await expect(page.getByRole("link", { name: "Go to Today" })).toBeVisible();
+      // Sign-out works from every page, our error pages included.
+      await expect(page.getByRole("button", { name: "Sign out" })).toBeVisible();
     });
   }
 });
