@@ -1,4 +1,4 @@
-import { SelectField, TextField } from "~/components/ui/field";
+import { SelectField, TextField, fromConform } from "~/components/ui/field";
 import { BIRTH_MONTH_OPTIONS } from "~/routes/admin/schemas";
 
 /** What this component needs of a conform field (a subset of its FieldMetadata). */
@@ -31,87 +31,65 @@ export function PersonFields({
     <div className="grid gap-x-5 md:grid-cols-2">
       <TextField
         key={fields.name.key}
-        id={fields.name.id}
-        name={fields.name.name}
+        {...fromConform(fields.name)}
         label="Full name"
         hint="As printed beside their signature."
-        defaultValue={text(fields.name)}
-        errors={fields.name.errors}
         autoComplete="off"
         required
       />
       <TextField
         key={fields.email.key}
-        id={fields.email.id}
-        name={fields.email.name}
+        {...fromConform(fields.email)}
         label="Work e-mail"
         hint="They sign in with it; one address per person in all of Tidemark."
         type="email"
         inputMode="email"
-        defaultValue={text(fields.email)}
-        errors={fields.email.errors}
         autoComplete="off"
         required
       />
       <TextField
         key={fields.employeeId.key}
-        id={fields.employeeId.id}
-        name={fields.employeeId.name}
+        {...fromConform(fields.employeeId)}
         label="Employee id (optional)"
         hint="From the hospital's HR system; unique in your organisation."
-        defaultValue={text(fields.employeeId)}
-        errors={fields.employeeId.errors}
         autoComplete="off"
       />
       <TextField
         key={fields.title.key}
-        id={fields.title.id}
-        name={fields.title.name}
+        {...fromConform(fields.title)}
         label="Job title (optional)"
         hint="e.g. Respiratory Therapist II"
-        defaultValue={text(fields.title)}
-        errors={fields.title.errors}
         autoComplete="off"
       />
       <TextField
         key={fields.credentialLetters.key}
-        id={fields.credentialLetters.id}
-        name={fields.credentialLetters.name}
+        {...fromConform(fields.credentialLetters)}
         label="Credential letters (optional)"
         hint="Post-nominal letters shown after the name, e.g. RRT or RRT-NPS."
-        defaultValue={text(fields.credentialLetters)}
-        errors={fields.credentialLetters.errors}
         autoComplete="off"
       />
       <TextField
         key={fields.hireDate.key}
-        id={fields.hireDate.id}
-        name={fields.hireDate.name}
+        {...fromConform(fields.hireDate)}
         label="Hire date"
         hint="YYYY-MM-DD. Requirements due at hire count from it."
         type="date"
-        defaultValue={text(fields.hireDate)}
-        errors={fields.hireDate.errors}
         required
       />
       <SelectField
         key={fields.homeUnitId.key}
-        id={fields.homeUnitId.id}
-        name={fields.homeUnitId.name}
+        {...fromConform(fields.homeUnitId)}
         label="Home unit"
         hint="Where they mostly work; their unit's requirements apply."
         defaultValue={text(fields.homeUnitId) ?? ""}
-        errors={fields.homeUnitId.errors}
         options={[{ value: "", label: "No home unit" }, ...unitChoices]}
       />
       <SelectField
         key={fields.birthMonth.key}
-        id={fields.birthMonth.id}
-        name={fields.birthMonth.name}
+        {...fromConform(fields.birthMonth)}
         label="Birth month (optional)"
         hint="Some state licences expire at the end of the birth month."
         defaultValue={text(fields.birthMonth) ?? ""}
-        errors={fields.birthMonth.errors}
         options={[{ value: "", label: "Not recorded" }, ...BIRTH_MONTH_OPTIONS]}
       />
     </div>

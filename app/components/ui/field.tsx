@@ -42,6 +42,22 @@ export function FieldFrame({ id, label, hint, errors, children, className }: Fie
   );
 }
 
+/** What conform knows about a field, as far as drawing it needs. */
+type ConformFieldMeta = { id: string; name: string; initialValue?: unknown; errors?: string[] };
+
+/**
+ * The props a field takes from conform's metadata: id, name, the value to show and the errors.
+ * The `key` stays separate (React does not take it from a spread).
+ */
+export function fromConform(meta: ConformFieldMeta) {
+  return {
+    id: meta.id,
+    name: meta.name,
+    defaultValue: typeof meta.initialValue === "string" ? meta.initialValue : undefined,
+    errors: meta.errors,
+  };
+}
+
 const controlClass =
   "w-full rounded-md border border-muted/60 bg-card px-3 py-2 text-base text-ink aria-[invalid=true]:border-coral aria-[invalid=true]:border-2";
 

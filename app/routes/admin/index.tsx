@@ -5,7 +5,7 @@ import { data, Form, useActionData, useLoaderData, useNavigation } from "react-r
 import { redirectWithToast } from "~/auth/flash.server";
 import { notFound, requireViewer } from "~/auth/gate.server";
 import { Button } from "~/components/ui/button";
-import { FormErrors, SelectField, TextField } from "~/components/ui/field";
+import { FormErrors, SelectField, TextField, fromConform } from "~/components/ui/field";
 import { getOrganisationSettings, updateOrganisationSettings } from "~/db/queries/admin.server";
 import { createOrganisationSchema } from "./schemas";
 import type { Route } from "./+types/index";
@@ -72,45 +72,33 @@ export default function OrganisationSettings() {
         <FormErrors id={form.errorId} errors={form.errors} />
         <TextField
           key={fields.name.key}
-          id={fields.name.id}
-          name={fields.name.name}
+          {...fromConform(fields.name)}
           label="Organisation name"
-          defaultValue={fields.name.initialValue}
-          errors={fields.name.errors}
           autoComplete="organization"
           required
         />
         <SelectField
           key={fields.timeZone.key}
-          id={fields.timeZone.id}
-          name={fields.timeZone.name}
+          {...fromConform(fields.timeZone)}
           label="Time zone"
           hint="The zone of the hospital's clock (IANA name), for example America/Chicago."
-          defaultValue={fields.timeZone.initialValue}
-          errors={fields.timeZone.errors}
           options={zoneOptions}
           required
         />
         <TextField
           key={fields.educationLeadName.key}
-          id={fields.educationLeadName.id}
-          name={fields.educationLeadName.name}
+          {...fromConform(fields.educationLeadName)}
           label="Education lead's printed name (optional)"
           hint="Printed on certificates beside the signature line."
-          defaultValue={fields.educationLeadName.initialValue}
-          errors={fields.educationLeadName.errors}
           autoComplete="off"
         />
         <TextField
           key={fields.contactEmail.key}
-          id={fields.contactEmail.id}
-          name={fields.contactEmail.name}
+          {...fromConform(fields.contactEmail)}
           label="Contact e-mail (optional)"
           hint="Where staff write with questions about their requirements; shown in reminder e-mails."
           type="email"
           inputMode="email"
-          defaultValue={fields.contactEmail.initialValue}
-          errors={fields.contactEmail.errors}
           autoComplete="off"
         />
         <div>

@@ -6,7 +6,7 @@ import { requireViewer } from "~/auth/gate.server";
 import { ROLE_LABELS, ROLES } from "~/auth/roles";
 import { PersonFields } from "~/components/admin/person-fields";
 import { Button } from "~/components/ui/button";
-import { FormErrors, SelectField } from "~/components/ui/field";
+import { FormErrors, SelectField, fromConform } from "~/components/ui/field";
 import { createPerson, personChecks, unitOptions } from "~/db/queries/admin-people.server";
 import { createNewPersonSchema } from "./schemas";
 import type { Route } from "./+types/person-new";
@@ -63,12 +63,10 @@ export default function NewPerson() {
         <PersonFields fields={fields} units={units} />
         <SelectField
           key={fields.firstRole.key}
-          id={fields.firstRole.id}
-          name={fields.firstRole.name}
+          {...fromConform(fields.firstRole)}
           label="First role"
           hint="More roles, and a manager's units, are on the person's page."
           defaultValue={typeof fields.firstRole.initialValue === "string" ? fields.firstRole.initialValue : "none"}
-          errors={fields.firstRole.errors}
           options={[{ value: "none", label: "No role yet" }, ...ROLES.map((r) => ({ value: r, label: ROLE_LABELS[r] }))]}
           className="flex max-w-sm flex-col gap-1"
         />

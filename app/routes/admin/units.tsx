@@ -7,7 +7,7 @@ import { notFound, requireViewer } from "~/auth/gate.server";
 import { AskTwice } from "~/components/admin/ask-twice";
 import { LedgerTable, Td, Th } from "~/components/admin/ledger";
 import { Button } from "~/components/ui/button";
-import { FormErrors, TextField } from "~/components/ui/field";
+import { FormErrors, TextField, fromConform } from "~/components/ui/field";
 import { createUnit, getUnit, listUnits, renameUnit, setUnitActive, unitChecks, type UnitRow } from "~/db/queries/admin.server";
 import { ConfirmSchema, createUnitSchema, UNIT_INTENTS } from "./schemas";
 import type { Route } from "./+types/units";
@@ -184,21 +184,15 @@ function RenameUnit({ unit }: { unit: UnitRow }) {
       <div className="grid gap-x-4 sm:grid-cols-[2fr_1fr]">
         <TextField
           key={fields.name.key}
-          id={fields.name.id}
-          name={fields.name.name}
+          {...fromConform(fields.name)}
           label="Unit name"
-          defaultValue={fields.name.initialValue}
-          errors={fields.name.errors}
           autoComplete="off"
           required
         />
         <TextField
           key={fields.code.key}
-          id={fields.code.id}
-          name={fields.code.name}
+          {...fromConform(fields.code)}
           label="Short code"
-          defaultValue={fields.code.initialValue}
-          errors={fields.code.errors}
           autoComplete="off"
           required
         />
@@ -234,23 +228,17 @@ function AddUnit() {
         <div className="grid gap-x-4 sm:grid-cols-[2fr_1fr]">
           <TextField
             key={fields.name.key}
-            id={fields.name.id}
-            name={fields.name.name}
+            {...fromConform(fields.name)}
             label="Unit name"
             hint="As staff say it, e.g. Adult ICU."
-            defaultValue={fields.name.initialValue}
-            errors={fields.name.errors}
             autoComplete="off"
             required
           />
           <TextField
             key={fields.code.key}
-            id={fields.code.id}
-            name={fields.code.name}
+            {...fromConform(fields.code)}
             label="Short code"
             hint="For narrow columns, e.g. AICU."
-            defaultValue={fields.code.initialValue}
-            errors={fields.code.errors}
             autoComplete="off"
             required
           />

@@ -6,7 +6,7 @@ import { clientKey, hitRateLimit } from "~/auth/rate-limit.server";
 import { readPendingSignIn, redeemCode, strategyError } from "~/auth/sign-in.server";
 import { AuthFrame } from "~/components/auth-frame";
 import { Button } from "~/components/ui/button";
-import { FormErrors, TextField } from "~/components/ui/field";
+import { FormErrors, TextField, fromConform } from "~/components/ui/field";
 import { env } from "~/config/env.server";
 import { CodeSchema } from "./schemas";
 import type { Route } from "./+types/login-code";
@@ -72,14 +72,12 @@ export default function LoginCode() {
       <Form method="post" {...getFormProps(form)} className="flex flex-col gap-2">
         <FormErrors id={form.errorId} errors={form.errors} />
         <TextField
-          id={fields.code.id}
-          name={fields.code.name}
+          {...fromConform(fields.code)}
           label="6-digit code"
           autoComplete="one-time-code"
           inputMode="numeric"
           maxLength={12}
           className="flex flex-col gap-1 [&_input]:text-2xl [&_input]:tracking-[0.3em]"
-          errors={fields.code.errors}
           required
         />
         <Button type="submit" disabled={navigation.state === "submitting"}>

@@ -7,7 +7,7 @@ import { requestCode } from "~/auth/sign-in.server";
 import { normaliseEmail } from "~/auth/sign-in-codes.server";
 import { AuthFrame } from "~/components/auth-frame";
 import { Button } from "~/components/ui/button";
-import { FormErrors, TextField } from "~/components/ui/field";
+import { FormErrors, TextField, fromConform } from "~/components/ui/field";
 import { env } from "~/config/env.server";
 import { EmailSchema } from "./schemas";
 import type { Route } from "./+types/login";
@@ -64,14 +64,11 @@ export default function Login() {
       <Form method="post" {...getFormProps(form)} className="flex flex-col gap-2">
         <FormErrors id={form.errorId} errors={form.errors} />
         <TextField
-          id={fields.email.id}
-          name={fields.email.name}
+          {...fromConform(fields.email)}
           label="Work e-mail"
           type="email"
           autoComplete="email"
           inputMode="email"
-          defaultValue={fields.email.initialValue as string | undefined}
-          errors={fields.email.errors}
           required
         />
         <Button type="submit" disabled={navigation.state === "submitting"}>
