@@ -12,6 +12,7 @@ import type { SimulationResult } from "./simulate";
 import type { BreathReading, Scenario, Waveform } from "./types";
 import { adaptiveComplianceFall } from "./templates/adaptive-compliance-fall";
 import type { Question, ScenarioTemplate } from "./templates/kit";
+import { pressureControlVolume } from "./templates/pressure-control-volume";
 import { volumeControlMechanics } from "./templates/volume-control-mechanics";
 import { whichAlarm } from "./templates/which-alarm";
 
@@ -41,6 +42,7 @@ export const SCENARIO_TEMPLATES = {
   "vc-static-compliance": volumeControlMechanics("static-compliance"),
   "vc-airway-resistance": volumeControlMechanics("airway-resistance"),
   "which-alarm": whichAlarm,
+  "pc-tidal-volume": pressureControlVolume,
 } satisfies Record<string, ScenarioTemplate>;
 
 export type TemplateId = keyof typeof SCENARIO_TEMPLATES;
