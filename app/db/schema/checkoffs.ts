@@ -1,5 +1,6 @@
 import { index, integer, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 import { calendarDate, createdAt, id, instant, updatedAt } from "./columns";
+import { files } from "./auth";
 import { organisations, people } from "./core";
 
 export const CHECKLIST_METHODS = [
@@ -126,6 +127,25 @@ export const addenda = sqliteTable("addenda", {
   createdAt: createdAt(),
 });
 
+/**
+ * Evidence attached to a check-off (a photo or PDF, e.g. a paper check-off from before Tidemark).
+ * The bytes live in `files`; this row says which check-off they belong to, so they are served
+ * only to people who may see that check-off.
+ */
+export const checkoffEvidence = sqliteTable(
+  "checkoff_evidence",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    checkoffId: text("checkoff_id").notNull().references(() => checkoffs.id),
+    fileId: text("file_id").notNull().references(() => files.id),
+    uploadedBy: text("uploaded_by").notNull().references(() => people.id),
+    note: text("note"),
+    createdAt: createdAt(),
+  },
+  (t) => [index("checkoff_evidence_checkoff").on(t.checkoffId)],
+);
+
 export const orientationPlans = sqliteTable("orientation_plans", {
   id: id(),
   orgId: text("org_id").notNull().references(() => organisations.id),
@@ -153,3 +173,5 @@ export const orientationPlanItems = sqliteTable("orientation_plan_items", {
 export type Checklist = typeof checklists.$inferSelect;
 export type Checkoff = typeof checkoffs.$inferSelect;
 export type Signature = typeof signatures.$inferSelect;
+export type CheckoffEvidence = typeof checkoffEvidence.$inferSelect;
+export type Addendum = typeof addenda.$inferSelect;
