@@ -22,7 +22,34 @@ export default [
     route("today", "routes/today/index.tsx"),
     layout("routes/plan/layout.tsx", [route("plan", "routes/plan/index.tsx")]),
     layout("routes/bench/layout.tsx", [route("bench", "routes/bench/index.tsx")]),
-    layout("routes/team/layout.tsx", [route("team", "routes/team/index.tsx")]),
+    layout("routes/team/layout.tsx", [
+      route("team", "routes/team/index.tsx"),
+      route("team/requirements", "routes/team/requirements.tsx"),
+      route("team/matrix", "routes/team/matrix.tsx"),
+      route("team/matrix/export", "routes/team/matrix-export.ts"),
+      route("team/people/:personId/requirements/:requirementId", "routes/team/cell.tsx"),
+    ]),
+    layout("routes/credentials/layout.tsx", [
+      route("credentials", "routes/credentials/index.tsx"),
+      route("credentials/:credentialId/scan", "routes/credentials/scan.ts"),
+    ]),
+    layout("routes/checkoffs/layout.tsx", [
+      route("checkoffs", "routes/checkoffs/index.tsx"),
+      route("checkoffs/signing-pin", "routes/checkoffs/signing-pin.tsx"),
+      route("checkoffs/orientation", "routes/checkoffs/orientation.tsx"),
+      route("checkoffs/checklists", "routes/checkoffs/checklists.tsx"),
+      route("checkoffs/checklists/:checklistId", "routes/checkoffs/checklist.tsx"),
+      route("checkoffs/:checkoffId", "routes/checkoffs/checkoff.tsx"),
+    ]),
+    layout("routes/bank/layout.tsx", [
+      route("bank", "routes/bank/index.tsx"),
+      route("bank/items/new", "routes/bank/item-new.tsx"),
+      route("bank/items/:itemId", "routes/bank/item.tsx"),
+      route("bank/items/:itemId/edit", "routes/bank/item-edit.tsx"),
+      route("bank/items/:itemId/versions/:version", "routes/bank/item-version.tsx"),
+      route("bank/import", "routes/bank/import.tsx"),
+      route("bank/export", "routes/bank/export.ts"),
+    ]),
     ...prefix("admin", [
       layout("routes/admin/layout.tsx", [
         index("routes/admin/index.tsx"),
@@ -30,8 +57,18 @@ export default [
         route("people", "routes/admin/people.tsx"),
         route("people/new", "routes/admin/person-new.tsx"),
         route("people/:personId", "routes/admin/person.tsx"),
+        route("references", "routes/admin/references.tsx"),
+        route("audit", "routes/admin/audit.tsx"),
       ]),
     ]),
+  ]),
+
+  // A check-off's record as a printable page, a PDF and its evidence: outside the shell (no top
+  // bar on paper), gated by their own layout like any section.
+  layout("routes/checkoffs/record-layout.tsx", [
+    route("checkoffs/:checkoffId/print", "routes/checkoffs/print.tsx"),
+    route("checkoffs/:checkoffId/record.pdf", "routes/checkoffs/record-pdf.ts"),
+    route("checkoffs/:checkoffId/evidence/:evidenceId", "routes/checkoffs/evidence.ts"),
   ]),
 
   route("*", "routes/not-found.tsx"),

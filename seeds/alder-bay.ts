@@ -35,7 +35,7 @@ const HELD: readonly CredentialTypeCode[] = ["state-licence", "board-credential"
 
 function alderBayTypes(): CredentialTypeSpec[] {
   return CREDENTIAL_TYPES.filter((t) => HELD.includes(t.code)).map((t) =>
-    t.code === "state-licence" ? { ...t, name: "State respiratory care licence (birth month)", rule: { kind: "birth-month", months: 24 } } : t,
+    t.code === "state-licence" ? { ...t, name: "State respiratory care licence (birth month)", rule: { kind: "birth-month", years: 2 } } : t,
   );
 }
 

@@ -3,9 +3,10 @@
  * because foreign keys are enforced) and the Dataset is inserted, inside the caller's write
  * transaction. Audit events are append-only and are never removed.
  */
-import { eq, inArray, is } from "drizzle-orm";
+import { eq, inArray, is, sql } from "drizzle-orm";
 import { getTableConfig, SQLiteTable, type SQLiteInsertValue } from "drizzle-orm/sqlite-core";
 import type { Tx } from "../app/db/client.server";
+import { liftImmutability, restoreImmutability } from "../app/db/immutability";
 import * as schema from "../app/db/schema";
 import type { Dataset } from "./dataset";
 
@@ -17,6 +18,7 @@ const OWNED_IN_DELETE_ORDER = [
   schema.responses,
   schema.attempts,
   schema.accommodations,
+  schema.checkoffEvidence,
   schema.checkoffStepResults,
   schema.signatures,
   schema.addenda,
@@ -70,6 +72,10 @@ export function assertResetCoversSchema(): void {
 /** Removes every row of one organisation except its audit events. */
 export async function resetOrganisation(tx: Tx, orgId: string): Promise<void> {
   assertResetCoversSchema();
+  // Signed rows refuse DELETE (app/db/immutability.ts); wiping a whole demo organisation is the
+  // one exception, and the triggers come back in this same transaction.
+  const runner = { run: (statement: string) => tx.run(sql.raw(statement)) };
+  await liftImmutability(runner);
   // Rows without an org_id of their own, reached through their parents.
   const orgItemVersions = tx.select({ id: schema.itemVersions.id }).from(schema.itemVersions).where(eq(schema.itemVersions.orgId, orgId));
   await tx.delete(schema.itemVersionTopics).where(inArray(schema.itemVersionTopics.itemVersionId, orgItemVersions));
@@ -79,6 +85,7 @@ export async function resetOrganisation(tx: Tx, orgId: string): Promise<void> {
     await tx.delete(table).where(eq(table.orgId, orgId));
   }
   await tx.delete(schema.organisations).where(eq(schema.organisations.id, orgId));
+  await restoreImmutability(runner);
 }
 
 /** SQLite allows 32,766 bound parameters per statement (SQLite "Limits In SQLite", since 3.32.0); stay well under. */
@@ -103,6 +110,9 @@ export async function insertDataset(tx: Tx, data: Dataset): Promise<void> {
   await insertRows(tx, schema.topics, data.topics);
   await insertRows(tx, schema.regulatoryReferences, data.regulatoryReferences);
   await insertRows(tx, schema.credentialTypes, data.credentialTypes);
+  await insertRows(tx, schema.items, data.items);
+  await insertRows(tx, schema.itemVersions, data.itemVersions);
+  await insertRows(tx, schema.itemVersionTopics, data.itemVersionTopics);
   await insertRows(tx, schema.exams, data.exams);
   await insertRows(tx, schema.examVersions, data.examVersions);
   await insertRows(tx, schema.checklists, data.checklists);

@@ -31,20 +31,23 @@ describe("valid-through dates of seeded credentials", () => {
     expect(validThroughFor(type("board-credential"), "2002-07-01")).toBe("2007-07-31");
   });
 
-  it("neonatal resuscitation runs two years to the day before the anniversary", () => {
-    // TESTING.md C5: two years, from memory; the day-before reading is ours and is configurable data.
-    expect(validThroughFor(type("neonatal-resuscitation"), "2024-08-15")).toBe("2026-08-14");
+  it("neonatal resuscitation runs two years to the same day (issue 8's months-exact contract)", () => {
+    // TESTING.md C5: two years, from memory; configurable data. app/domain/validity: "the same day
+    // N months later, clamped to the month's end".
+    expect(validThroughFor(type("neonatal-resuscitation"), "2024-08-15")).toBe("2026-08-15");
     // 29 February: the anniversary month has no 29th, so the term ends on its last day.
     expect(validThroughFor(type("neonatal-resuscitation"), "2024-02-29")).toBe("2026-02-28");
-    expect(validThroughFor(type("neonatal-resuscitation"), "2024-02-28")).toBe("2026-02-27");
+    expect(validThroughFor(type("neonatal-resuscitation"), "2024-02-28")).toBe("2026-02-28");
   });
 
-  it("a birth-month licence ends in the holder's birth month, never later than the term", () => {
-    // TESTING.md C6 — end of the birth month (California B&P §2535); the "never longer than the term" reading is ours.
-    const terms: ValidityTerms = { rule: { kind: "birth-month", months: 24 } };
-    expect(validThroughFor(terms, "2025-03-10", 7)).toBe("2026-07-31");
+  it("a birth-month licence ends in the holder's birth month of the year the term ends", () => {
+    // TESTING.md C6 — end of the birth month (California B&P §2535); issue 8's contract: the
+    // last day of the birth month in the year the term ends.
+    const terms: ValidityTerms = { rule: { kind: "birth-month", years: 2 } };
+    expect(validThroughFor(terms, "2025-03-10", 7)).toBe("2027-07-31");
     expect(validThroughFor(terms, "2025-09-10", 7)).toBe("2027-07-31");
     expect(validThroughFor(terms, "2025-03-10", 3)).toBe("2027-03-31");
+    // No birth month on file: the end of the month the term ends.
     expect(validThroughFor(terms, "2025-03-10", null)).toBe("2027-03-31");
   });
 });

@@ -1,55 +1,34 @@
 /**
  * Valid-through dates of seeded credentials, and issue dates chosen so that a credential lands
- * in a wanted status relative to the demo day.
- *
- * The application's own validity engine (app/domain/validity) does not exist yet; this module
- * computes only what the seed stores (`credentials.valid_through`) and states each rule's source.
- * When the domain module lands, the seed should call it instead.
+ * in a wanted status relative to the demo day. The rules themselves, with their sources, are the
+ * application's (app/domain/validity): the seed stores what the app would compute.
  */
-import { addDays, addMonths, daysBetween, endOfMonth, formatIsoDate, parseIsoDate, type IsoDate } from "./calendar";
+import { validThroughForType, type CredentialTerms, type StoredValidityRule } from "../app/domain/validity";
+import { addDays, addMonths, daysBetween, type IsoDate } from "./calendar";
 import type { Prng } from "./prng";
 
 /** The JSON stored in credential_types.rule. */
-export type ValidityRule =
-  | { kind: "months-end-of-month"; months: number }
-  | { kind: "months-exact"; months: number }
-  | { kind: "birth-month"; months: number };
+export type ValidityRule = StoredValidityRule;
 
-export type ValidityTerms = { rule: ValidityRule; neverExpiresIfIssuedBefore?: IsoDate | null };
+export type ValidityTerms = CredentialTerms;
 
-/**
- * Last valid date (inclusive), or null for no expiry.
- * - months-end-of-month: life-support cards are "valid for two years through the end of the
- *   month during which the course completion card was issued" (American Heart Association,
- *   "Course Card Information", cpr.heart.org); the board credential is five years ending on the
- *   last day of the month the exam was passed, and one earned before 2002-07-01 never expires
- *   (NBRC, "Credential Maintenance & State License Renewal", nbrc.org).
- * - months-exact: through the day before the same date `months` later, or through the end of the
- *   month when that date does not exist (neonatal resuscitation: two years, from memory; the rule
- *   is data, so it can be changed).
- * - birth-month: some state licences end on the last day of the holder's birth month
- *   (California Business & Professions Code §2535, as cited in shared/TESTING.md C6). Our
- *   reading: the last end of the birth month on or before issue + `months`, so a term is never
- *   longer than `months`. Without a birth month on file it falls back to end-of-month.
- */
+/** Last valid date (inclusive), or null for no expiry: app/domain/validity's `validThroughForType`. */
 export function validThroughFor(terms: ValidityTerms, issuedOn: IsoDate, birthMonth?: number | null): IsoDate | null {
-  if (terms.neverExpiresIfIssuedBefore && issuedOn < terms.neverExpiresIfIssuedBefore) return null;
-  const { rule } = terms;
+  return validThroughForType(terms, issuedOn, birthMonth);
+}
+
+/** The length of a rule's term in months, for choosing plausible issue dates. */
+function termMonths(rule: ValidityRule): number {
   switch (rule.kind) {
     case "months-end-of-month":
-      return endOfMonth(addMonths(issuedOn, rule.months));
-    case "months-exact": {
-      const anniversary = addMonths(issuedOn, rule.months);
-      // A clamped anniversary (29 February in a common year) already is the last day of the term.
-      return parseIsoDate(anniversary).day < parseIsoDate(issuedOn).day ? anniversary : addDays(anniversary, -1);
-    }
-    case "birth-month": {
-      if (!birthMonth) return endOfMonth(addMonths(issuedOn, rule.months));
-      const limit = addMonths(issuedOn, rule.months);
-      const { year: y, month: m } = parseIsoDate(limit);
-      const year = birthMonth <= m ? y : y - 1;
-      return endOfMonth(formatIsoDate(year, birthMonth, 1));
-    }
+    case "months-exact":
+      return rule.months;
+    case "birth-month":
+      return rule.years * 12;
+    case "fixed-date":
+      return rule.everyYears * 12;
+    case "never":
+      return 24;
   }
 }
 
@@ -77,7 +56,7 @@ export function issueDateForStatus(
   prng: Prng,
   birthMonth?: number | null,
 ): IsoDate {
-  const months = terms.rule.months;
+  const months = termMonths(terms.rule);
   const earliest = addDays(addMonths(today, -months), -150);
   // Issued at least three weeks before the demo day.
   const span = Math.max(1, daysBetween(earliest, today) - 21);

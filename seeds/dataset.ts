@@ -10,6 +10,9 @@ import type {
   credentialTypes,
   exams,
   examVersions,
+  items,
+  itemVersions,
+  itemVersionTopics,
   organisations,
   orientationPlanItems,
   orientationPlans,
@@ -34,6 +37,9 @@ export type Dataset = {
   regulatoryReferences: (typeof regulatoryReferences.$inferInsert)[];
   credentialTypes: (typeof credentialTypes.$inferInsert)[];
   exams: (typeof exams.$inferInsert)[];
+  items: (typeof items.$inferInsert)[];
+  itemVersions: (typeof itemVersions.$inferInsert)[];
+  itemVersionTopics: (typeof itemVersionTopics.$inferInsert)[];
   examVersions: (typeof examVersions.$inferInsert)[];
   checklists: (typeof checklists.$inferInsert)[];
   checklistVersions: (typeof checklistVersions.$inferInsert)[];
@@ -56,6 +62,9 @@ export function emptyDataset(): Dataset {
     regulatoryReferences: [],
     credentialTypes: [],
     exams: [],
+    items: [],
+    itemVersions: [],
+    itemVersionTopics: [],
     examVersions: [],
     checklists: [],
     checklistVersions: [],

@@ -4,6 +4,7 @@
  * orientation), one manager, one admin, and the five demo addresses. With `people` set it
  * builds a larger hospital with the same role mix, for benchmarks.
  */
+import { addBank } from "./bank";
 import type { Role } from "../app/auth/roles";
 import { addDays, addMonths, instantOn, withDay, type IsoDate } from "./calendar";
 import {
@@ -238,6 +239,9 @@ export function buildKestrelValley(options: BuildOptions): { data: Dataset; rost
   const types = addCredentialTypes(ctx, CREDENTIAL_TYPES);
   const exams = addExams(ctx, roster.demo.educator.id);
   const checklists = addChecklists(ctx, roster.demo.educator.id);
+  // The question bank: written and approved by the two educators in turn (seeds/bank/).
+  const secondEducator = data.personRoles.find((r) => r.role === "educator" && r.personId !== roster.demo.educator.id)?.personId ?? roster.demo.educator.id;
+  addBank(ctx, [roster.demo.educator.id, secondEducator]);
   addKvRecords(ctx, roster, { references, types, exams, checklists });
   return { data, roster, orgId: ctx.orgId };
 }

@@ -14,7 +14,16 @@ export type Access =
   /** Any signed-in person. */
   | { who: "signed-in"; note?: string }
   /** Signed in and holding this permission; 403 otherwise. */
-  | { who: "permission"; permission: Permission; note?: string };
+  | {
+      who: "permission";
+      permission: Permission;
+      note?: string;
+      /**
+       * The record is further limited to its owner or their managers: a permitted person who
+       * is neither gets the same 404 as for a record that does not exist (no probing of ids).
+       */
+      recordScoped?: true;
+    };
 
 export const ROUTE_ACCESS: Record<string, Access> = {
   "/": { who: "public", note: "redirects to /today or /login" },
@@ -28,11 +37,40 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   "/plan": { who: "permission", permission: "section:plan" },
   "/bench": { who: "permission", permission: "section:bench" },
   "/team": { who: "permission", permission: "section:team" },
+  "/team/requirements": { who: "permission", permission: "team:read" },
+  "/team/matrix": { who: "permission", permission: "team:read" },
+  "/team/matrix/export": { who: "permission", permission: "team:read" },
+  "/team/people/:personId/requirements/:requirementId": {
+    who: "permission",
+    permission: "team:read",
+    recordScoped: true,
+    note: "404 outside the viewer's units or when the requirement does not apply; waivers and extensions need team:manage",
+  },
+  "/credentials": { who: "permission", permission: "section:credentials" },
+  "/credentials/:credentialId/scan": { who: "permission", permission: "section:credentials", recordScoped: true, note: "404 unless the holder or a manager of their unit" },
+  "/bank": { who: "permission", permission: "section:bank" },
+  "/bank/items/new": { who: "permission", permission: "section:bank" },
+  "/bank/items/:itemId": { who: "permission", permission: "section:bank", note: "unpublished items too: educators only" },
+  "/bank/items/:itemId/edit": { who: "permission", permission: "section:bank" },
+  "/bank/items/:itemId/versions/:version": { who: "permission", permission: "section:bank" },
+  "/bank/import": { who: "permission", permission: "section:bank" },
+  "/bank/export": { who: "permission", permission: "section:bank", note: "CSV or JSON file" },
+  "/checkoffs": { who: "permission", permission: "section:checkoffs", note: "own check-offs; preceptors also those to observe; educators and managers read" },
+  "/checkoffs/signing-pin": { who: "permission", permission: "section:checkoffs" },
+  "/checkoffs/orientation": { who: "permission", permission: "section:checkoffs", note: "own plan; a preceptor's orientees; managers and educators all" },
+  "/checkoffs/checklists": { who: "permission", permission: "section:checkoffs", note: "educators write (checklists:write); others read" },
+  "/checkoffs/checklists/:checklistId": { who: "permission", permission: "section:checkoffs", note: "educators write (checklists:write); others read" },
+  "/checkoffs/:checkoffId": { who: "permission", permission: "section:checkoffs", note: "404 unless canViewCheckoff (own, preceptor, educator, manager)" },
+  "/checkoffs/:checkoffId/print": { who: "permission", permission: "section:checkoffs", note: "404 unless canViewCheckoff" },
+  "/checkoffs/:checkoffId/record.pdf": { who: "permission", permission: "section:checkoffs", note: "404 unless canViewCheckoff" },
+  "/checkoffs/:checkoffId/evidence/:evidenceId": { who: "permission", permission: "section:checkoffs", note: "404 unless canViewCheckoff" },
   "/admin": { who: "permission", permission: "section:admin" },
   "/admin/units": { who: "permission", permission: "section:admin" },
   "/admin/people": { who: "permission", permission: "section:admin" },
   "/admin/people/new": { who: "permission", permission: "section:admin" },
   "/admin/people/:personId": { who: "permission", permission: "section:admin" },
+  "/admin/references": { who: "permission", permission: "org:settings" },
+  "/admin/audit": { who: "permission", permission: "section:admin", note: "the audit chain's state and a check-off's history" },
   "*": { who: "public", note: "our own 404 page" },
 };
 

@@ -29,6 +29,7 @@ import { compareWithPrevious, formatBundle, formatHttp, formatSim, type BenchRes
 import { choosePort, httpGet, startBenchServer, type BenchServer } from "./server";
 import { prepareBenchDatabase, sessionCookieHeader } from "./session";
 import { timeModes } from "./sim";
+import { formatTeamMatrix, timeBareMatrixSql, widenRequirements, withRequest, type TeamMatrixFigure } from "./team-matrix";
 
 const PROJECT_ROOT = path.resolve(import.meta.dirname, "..", "..");
 const BENCH_DIR = path.join(PROJECT_ROOT, "data", "bench");
@@ -110,6 +111,16 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
   console.log(`  seeded in ${(db.seedMs / 1000).toFixed(1)} s; session for ${db.manager.email} (${db.manager.name}).`);
   Object.assign(settings, { people: peopleCount, seedToday: today, seedS: Math.round(db.seedMs / 100) / 10 });
 
+  // Team matrix (issue 8): 40 requirements, and the bare SQL behind the matrix timed before the server starts.
+  let matrixFigure: TeamMatrixFigure | undefined;
+  try {
+    const widened = await widenRequirements(db.databaseUrl, db.manager.email);
+    const bare = await timeBareMatrixSql(db.databaseUrl, widened.orgId, widened.unitIds);
+    matrixFigure = { requirements: widened.count, ...bare, targets: "targets: request p95 under 50 ms, within 3× the bare query" };
+  } catch (error) {
+    errors.push(`team-matrix bare SQL: ${message(error)}`);
+  }
+
   const port = await choosePort(positive("port", flags.port));
   server = await startBenchServer({
     projectRoot: PROJECT_ROOT,
@@ -130,6 +141,7 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
     { target: { name: "GET /team (manager)", path: "/team", headers: cookie, reference: oneQuery }, mustShow: db.manager.name },
     { target: { name: "GET /healthz", path: "/healthz", reference: { label: "JSON resource route", requestsPerSecond: 1370 } } },
   ];
+
   const benchPage = await httpGet(`${server.baseUrl}/bench`, cookie).catch((e: unknown) => ({ status: 0, error: message(e) }));
   console.log(`GET /bench as the manager answers ${benchPage.status} (checked, not measured).`);
 
@@ -145,6 +157,31 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
       errors.push(`HTTP ${target.name}: ${message(error)}`);
       console.error(`  ${message(error)}`);
     }
+  }
+  // What the matrix's useFetcher asks for: the matrix route's data alone, a status filter applied.
+  const matrixTarget: RouteTarget = {
+    name: "GET /team/matrix.data?status=lapsed (manager, team-matrix)",
+    path: "/team/matrix.data?status=lapsed&_routes=routes%2Fteam%2Fmatrix",
+    headers: cookie,
+    reference: oneQuery,
+  };
+  if (matrixFigure && !interrupted) {
+    const t0 = performance.now();
+    const first = await httpGet(`${server.baseUrl}${matrixTarget.path}`, matrixTarget.headers);
+    const coldMs = performance.now() - t0;
+    if (first.status !== 200) errors.push(`team-matrix request: expected 200, got ${first.status}`);
+    else {
+      try {
+        console.log(`Measuring ${matrixTarget.name}: ${load.warmupS} s warm-up, ${load.durationS} s at ${load.connections} connections …`);
+        const fig = await measureRoute(server.baseUrl, matrixTarget, load);
+        figures.push(fig);
+        matrixFigure = withRequest(matrixFigure, { name: matrixTarget.name, p50Ms: fig.p50Ms, p95Ms: fig.p95Ms, p99Ms: fig.p99Ms }, coldMs);
+      } catch (error) {
+        errors.push(`HTTP ${matrixTarget.name}: ${message(error)}`);
+      }
+    }
+    settings["team-matrix"] = matrixFigure;
+    console.log(formatTeamMatrix(matrixFigure));
   }
   return figures;
 }

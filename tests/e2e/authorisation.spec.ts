@@ -11,6 +11,9 @@
 import { request as playwrightRequest, type APIRequestContext } from "@playwright/test";
 import { ROUTE_ACCESS, type Access } from "../../app/auth/route-access";
 import { can, isRole, type Role } from "../../app/auth/roles";
+import { seededChecklistId, seededCheckoffId, seededEvidenceId } from "../fixtures/checkoffs";
+import { seededItemId } from "../fixtures/bank";
+import { seededCredentialId, seededRequirementId } from "../fixtures/credentials";
 import { firstPersonId, insertSession, one, rolesOf } from "../fixtures/e2e-db";
 import { APP_URL, DEMO, type DemoKey } from "../fixtures/e2e-env";
 import { builtRouteManifest } from "../fixtures/route-manifest";
@@ -26,6 +29,13 @@ type Identity = { label: string; org: "kestrel-valley" | "alder-bay"; roles: Rol
  */
 const PARAMS: Record<string, (org: Identity["org"]) => Promise<string>> = {
   personId: (org) => firstPersonId(org),
+  checkoffId: (org) => seededCheckoffId(org),
+  checklistId: (org) => seededChecklistId(org),
+  evidenceId: (org) => seededEvidenceId(org),
+  itemId: (org) => seededItemId(org),
+  version: async () => "1",
+  credentialId: (org) => seededCredentialId(org),
+  requirementId: (org) => seededRequirementId(org),
 };
 
 /** A catch-all segment that no route claims. */
@@ -51,7 +61,7 @@ function dataUrl(path: string, routeId: string): string {
   return `${base}?_routes=${encodeURIComponent(routeId)}`;
 }
 
-type Expected = { kind: "any-but-denied" } | { kind: "ok" } | { kind: "forbidden" } | { kind: "sign-in" };
+type Expected = { kind: "any-but-denied" } | { kind: "ok" } | { kind: "ok-or-not-found" } | { kind: "forbidden" } | { kind: "sign-in" };
 
 function expectedFor(access: Access, roles: Role[] | null): Expected {
   switch (access.who) {
@@ -64,7 +74,9 @@ function expectedFor(access: Access, roles: Role[] | null): Expected {
       return roles ? { kind: "ok" } : { kind: "sign-in" };
     case "permission":
       if (!roles) return { kind: "sign-in" };
-      return can(roles, access.permission) ? { kind: "ok" } : { kind: "forbidden" };
+      if (!can(roles, access.permission)) return { kind: "forbidden" };
+      // A record-scoped route answers a permitted person who is not its owner (or their manager) with 404.
+      return access.recordScoped ? { kind: "ok-or-not-found" } : { kind: "ok" };
   }
 }
 
@@ -82,6 +94,11 @@ function judge(expected: Expected, answer: Answer, asData: boolean, path: string
     case "ok":
       if (status !== 200) return `expected 200, got ${status}${location ? ` → ${location}` : ""}`;
       // A data request that loaded nothing would pass vacuously: the route's own data must be in it.
+      if (asData && loadedId && !body.includes(JSON.stringify(loadedId))) return `200 without the data of ${loadedId}`;
+      return null;
+    case "ok-or-not-found":
+      if (status === 404) return null;
+      if (status !== 200) return `expected 200 or 404, got ${status}${location ? ` → ${location}` : ""}`;
       if (asData && loadedId && !body.includes(JSON.stringify(loadedId))) return `200 without the data of ${loadedId}`;
       return null;
     case "forbidden":

@@ -113,7 +113,7 @@ export async function loadCredentials(orgId: string, personId: string): Promise<
 export async function loadWaivers(orgId: string, personId: string): Promise<PlanWaiver[]> {
   const { db } = await database();
   return db
-    .select({ requirementId: waivers.requirementId, endsOn: waivers.endsOn })
+    .select({ id: waivers.id, requirementId: waivers.requirementId, endsOn: waivers.endsOn, reason: waivers.reason, grantedBy: waivers.grantedBy })
     .from(waivers)
     .where(and(eq(waivers.orgId, orgId), eq(waivers.personId, personId), isNull(waivers.revokedAt)));
 }

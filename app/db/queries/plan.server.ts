@@ -92,6 +92,7 @@ export async function getPlan(orgId: string, personId: string, timeZone: string,
         unitId: requirements.unitId,
         role: requirements.role,
         active: requirements.active,
+        graceDays: requirements.graceDays,
       })
       .from(requirements)
       .where(and(eq(requirements.orgId, orgId), eq(requirements.active, true)))
@@ -115,7 +116,7 @@ export async function getPlan(orgId: string, personId: string, timeZone: string,
     loadCompletions(orgId, personId, timeZone),
     loadWaivers(orgId, personId),
     db
-      .select({ requirementId: extensions.requirementId, newDueOn: extensions.newDueOn })
+      .select({ id: extensions.id, requirementId: extensions.requirementId, newDueOn: extensions.newDueOn, reason: extensions.reason, grantedBy: extensions.grantedBy })
       .from(extensions)
       .where(and(eq(extensions.orgId, orgId), eq(extensions.personId, personId))),
   ]);

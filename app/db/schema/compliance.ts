@@ -100,6 +100,8 @@ export const credentials = sqliteTable(
     scanFileId: text("scan_file_id").references(() => files.id),
     verifiedBy: text("verified_by").references(() => people.id),
     verifiedAt: instant("verified_at"),
+    /** How it was verified against the primary source, e.g. "State board online licence lookup". */
+    verificationMethod: text("verification_method"),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

@@ -61,10 +61,22 @@ export function addMonths(value: IsoDate, months: number): IsoDate {
   return formatIsoDate(y, m, Math.min(day, daysInMonth(y, m)));
 }
 
+// Building an Intl.DateTimeFormat costs far more than using one; the Team matrix converts
+// thousands of instants per assessment, so one formatter per zone is kept.
+const formatters = new Map<string, Intl.DateTimeFormat>();
+function formatterFor(timeZone: string): Intl.DateTimeFormat {
+  let f = formatters.get(timeZone);
+  if (!f) {
+    f = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" });
+    formatters.set(timeZone, f);
+  }
+  return f;
+}
+
 /** The calendar date an instant falls on in an IANA time zone (e.g. "today" for the organisation). */
 export function calendarDateIn(timeZone: string, instant: Date): IsoDate {
   // en-CA formats as YYYY-MM-DD; formatToParts keeps us independent of that locale detail.
-  const parts = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).formatToParts(instant);
+  const parts = formatterFor(timeZone).formatToParts(instant);
   const part = (type: string) => Number(parts.find((p) => p.type === type)?.value);
   return formatIsoDate(part("year"), part("month"), part("day"));
 }

@@ -137,4 +137,24 @@ describe("a therapist's plan on 2026-12-02", () => {
     const lapsedDone = buildPlan({ ...input, completions: [{ kind: "exam", refId: "exam-1", completedOn: "2025-10-01" }] }, { today });
     expect(lapsedDone.find((r) => r.title === "Annual exam")).toMatchObject({ dateMeaning: "due", result: { status: "not-started", date: "2026-12-23" } });
   });
+
+  it("says what to do next for each row", () => {
+    // Issue 8 §5: take the exam, ask for a check-off, upload a renewed card.
+    const step = (title: string) => plan.find((r) => r.title === title)?.nextStep;
+    expect(step("Annual check-off")).toBe("ask-for-checkoff");
+    expect(step("Annual exam")).toBe("take-exam");
+    expect(step("Advanced cardiac life support")).toBe("none");
+    expect(step("Circuit change")).toBe("ask-for-checkoff");
+  });
+
+  it("a grace period keeps a lapsing card due soon, and the row says when that ends", () => {
+    const withGrace = buildPlan(
+      { ...input, requirements: input.requirements.map((r) => (r.id === "r-acls" ? { ...r, graceDays: 30 } : r)), waivers: [] },
+      { today: "2026-12-10" },
+    );
+    const acls = withGrace.find((r) => r.title === "Advanced cardiac life support")!;
+    // Valid through 2026-11-30 + 30 days' grace → Due soon through 2026-12-30, Lapsed from 2026-12-31.
+    expect(acls).toMatchObject({ result: { status: "due-soon", date: "2026-11-30" }, nextChangeOn: "2026-12-31", nextStatus: "lapsed", nextStep: "upload-renewed-card" });
+    expect(acls.evidence?.[0]).toMatchObject({ kind: "credential", validThrough: "2026-11-30" });
+  });
 });

@@ -3,7 +3,8 @@
  * assignments and the credentials they hold, each with its status, in due-date order.
  * Pure: the caller loads the rows (app/db/queries/plan.server.ts) and passes `today`.
  */
-import { addMonths, type IsoDate } from "./calendar-date";
+import { addMonths, daysBetween, type IsoDate } from "./calendar-date";
+import { assessOn, type AssessInput, type Evidence } from "./engine";
 import {
   compareByDate,
   heldStatus,
@@ -32,6 +33,8 @@ export type PlanRequirement = {
   /** null: any role. */
   role: string | null;
   active: boolean;
+  /** Days after valid-through that still count as Due soon (issue 8 §4); 0 when absent. */
+  graceDays?: number;
 };
 
 export type PlanCredential = {
@@ -58,8 +61,11 @@ export type PlanAssignment = {
 /** A passed exam or a check-off signed competent, on the organisation's calendar date. */
 export type PlanCompletion = { kind: "exam" | "checklist"; refId: string; completedOn: IsoDate };
 
-export type PlanWaiver = WaiverSpan & { requirementId: string };
-export type PlanExtension = { requirementId: string; newDueOn: IsoDate };
+export type PlanWaiver = WaiverSpan & { requirementId: string; id?: string; reason?: string; grantedBy?: string | null };
+export type PlanExtension = { requirementId: string; newDueOn: IsoDate; id?: string; reason?: string; grantedBy?: string | null };
+
+/** What the person should do next for a row (issue 8 §5). */
+export type NextStep = "take-exam" | "ask-for-checkoff" | "upload-card" | "upload-renewed-card" | "await-verification" | "none";
 
 export type PlanInput = {
   person: PlanPerson;
@@ -82,7 +88,29 @@ export type PlanRow = {
   extendedTo: IsoDate | null;
   /** For a held credential: the card or licence that counts. */
   credential: Pick<PlanCredential, "number" | "issuer" | "issuedOn" | "verified"> | null;
+  /** The requirement this row answers, when it answers one. */
+  requirementId?: string | null;
+  /** The credential type a credential row is about (to pre-fill "upload a renewed card"). */
+  credentialTypeId?: string | null;
+  /** The first day the status changes on its own, and to what (status engine). */
+  nextChangeOn?: IsoDate | null;
+  nextStatus?: StatusResult["status"] | null;
+  nextStep?: NextStep;
+  evidence?: Evidence[];
 };
+
+/**
+ * What to do next: work not done → take the exam / ask for a check-off; a card missing → upload
+ * it; a card lapsed or due soon → upload the renewed one; a card on file but not verified →
+ * wait for the manager. Current and waived rows need nothing.
+ */
+export function nextStepFor(kind: WorkKind, status: StatusResult["status"], credential: PlanRow["credential"]): NextStep {
+  if (status === "current" || status === "waived") return credential && !credential.verified ? "await-verification" : "none";
+  if (kind === "exam") return "take-exam";
+  if (kind === "checklist") return "ask-for-checkoff";
+  if (!credential) return "upload-card";
+  return "upload-renewed-card";
+}
 
 function credentialDetail(c: PlanCredential | undefined): PlanRow["credential"] {
   return c ? { number: c.number, issuer: c.issuer, issuedOn: c.issuedOn, verified: c.verified } : null;
@@ -163,22 +191,24 @@ export function buildPlan(input: PlanInput, options: StatusOptions): PlanRow[] {
   for (const req of applying) {
     const waivers = waiversByRequirement.get(req.id) ?? [];
     const extendedTo = extensionByRequirement.get(req.id) ?? null;
-    let result: StatusResult;
-    let dateMeaning: PlanRow["dateMeaning"];
     let credential: PlanRow["credential"] = null;
     const title = req.name;
+
+    const engineWaivers = waivers.map((w, i) => ({ id: w.id ?? `waiver-${i}`, reason: w.reason ?? "", endsOn: w.endsOn, grantedBy: w.grantedBy ?? null, revoked: w.revoked }));
+    const engineExtensions = input.extensions
+      .filter((e) => e.requirementId === req.id)
+      .map((e, i) => ({ id: e.id ?? `extension-${i}`, reason: e.reason ?? "", newDueOn: e.newDueOn, grantedBy: e.grantedBy ?? null }));
+    const base = { graceDays: req.graceDays ?? 0, waivers: engineWaivers, extensions: engineExtensions };
+    let assessInput: AssessInput;
 
     if (req.kind === "credential") {
       if (req.credentialTypeId) coveredTypes.add(req.credentialTypeId);
       const best = bestCredential(credentialsByType.get(req.credentialTypeId ?? "") ?? []);
       if (best) {
-        dateMeaning = "valid-through";
         credential = credentialDetail(best);
-        // A card's valid-through date is a fact of the card: an extension moves due dates of work, not it.
-        result = heldStatus(best.validThrough, options);
+        assessInput = { ...base, held: { validThrough: best.validThrough, evidence: { kind: "credential", id: best.id, typeName: best.typeName, number: best.number, issuer: best.issuer, issuedOn: best.issuedOn, validThrough: best.validThrough, verified: best.verified } }, dueOn: null };
       } else {
-        dateMeaning = "due";
-        result = outstandingStatus(extendedTo, options);
+        assessInput = { ...base, held: null, dueOn: null };
       }
     } else {
       const refId = req.kind === "exam" ? req.examId : req.checklistId;
@@ -188,32 +218,62 @@ export function buildPlan(input: PlanInput, options: StatusOptions): PlanRow[] {
         .sort((a, b) => (a.dueOn < b.dueOn ? -1 : 1));
       for (const a of open) usedAssignments.add(a.id);
       const validThrough = completedOn ? validThroughAfter(completedOn, req.recurrence) : null;
-      const held = completedOn ? heldStatus(validThrough, options) : null;
+      const heldInput: AssessInput | null =
+        completedOn && refId
+          ? { ...base, held: { validThrough, evidence: { kind: "completion", of: req.kind, refId, completedOn, validThrough } }, dueOn: null }
+          : null;
       // A lapsed completion with fresh work assigned shows the new due date; otherwise the record.
-      if (held && (held.status !== "lapsed" || open.length === 0)) {
-        dateMeaning = "valid-through";
-        result = held;
+      if (heldInput && (assessOn(heldInput, today, options.reminderDays).status !== "lapsed" || open.length === 0)) {
+        assessInput = heldInput;
       } else {
-        dateMeaning = "due";
-        result = outstandingStatus(later(open[0]?.dueOn ?? null, extendedTo), options);
+        const first = open[0];
+        assessInput = { ...base, held: null, dueOn: first?.dueOn ?? null, dueEvidence: first ? { kind: "assignment", id: first.id, dueOn: first.dueOn } : null };
       }
     }
-    const usedExtension = extendedTo !== null && dateMeaning === "due" ? extendedTo : null;
-    rows.push({ key: `requirement:${req.id}`, kind: req.kind, title, dateMeaning, result: withWaiver(result, waivers, today), extendedTo: usedExtension, credential });
+    const a = assessOn(assessInput, today, options.reminderDays);
+    const dateMeaning = a.dateMeaning;
+    // The date judged: an extension in force replaces a due date; a card keeps its own date.
+    const date = dateMeaning === "due" ? later(a.date, a.extendedTo) : a.date;
+    const daysLeft = date === null ? null : daysBetween(today, date);
+    const result: StatusResult = {
+      status: a.status,
+      date,
+      daysLeft,
+      daysLapsed: a.status === "lapsed" && daysLeft !== null ? -daysLeft : null,
+      ...(a.waivedThrough ? { waivedThrough: a.waivedThrough } : {}),
+    };
+    rows.push({
+      key: `requirement:${req.id}`,
+      kind: req.kind,
+      title,
+      dateMeaning,
+      result,
+      extendedTo: a.extendedTo,
+      credential,
+      requirementId: req.id,
+      credentialTypeId: req.credentialTypeId,
+      nextChangeOn: a.nextChangeOn,
+      nextStatus: a.nextStatus,
+      nextStep: nextStepFor(req.kind, a.status, credential),
+      evidence: a.evidence,
+    });
   }
 
   for (const a of input.assignments) {
     if (usedAssignments.has(a.id)) continue;
     const extendedTo = a.requirementId ? (extensionByRequirement.get(a.requirementId) ?? null) : null;
     const waivers = a.requirementId ? (waiversByRequirement.get(a.requirementId) ?? []) : [];
+    const result = withWaiver(outstandingStatus(later(a.dueOn, extendedTo), options), waivers, today);
     rows.push({
       key: `assignment:${a.id}`,
       kind: a.kind,
       title: a.title,
       dateMeaning: "due",
-      result: withWaiver(outstandingStatus(later(a.dueOn, extendedTo), options), waivers, today),
+      result,
       extendedTo,
       credential: null,
+      requirementId: a.requirementId,
+      nextStep: nextStepFor(a.kind, result.status, null),
     });
   }
 
@@ -230,7 +290,10 @@ export function buildPlan(input: PlanInput, options: StatusOptions): PlanRow[] {
       result: withWaiver(heldStatus(best.validThrough, options), typeWaivers.get(typeId) ?? [], today),
       extendedTo: null,
       credential: credentialDetail(best),
+      credentialTypeId: typeId,
     });
+    const last = rows[rows.length - 1]!;
+    last.nextStep = nextStepFor("credential", last.result.status, last.credential);
   }
 
   return rows.sort((a, b) => compareByDate(a.result, b.result) || a.title.localeCompare(b.title));

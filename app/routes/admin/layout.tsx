@@ -8,6 +8,8 @@ const TABS = [
   { to: "/admin", label: "Organisation", end: true },
   { to: "/admin/units", label: "Units", end: false },
   { to: "/admin/people", label: "People", end: false },
+  { to: "/admin/references", label: "Regulatory references", end: false },
+  { to: "/admin/audit", label: "Audit trail", end: false },
 ];
 
 export default function AdminLayout() {

@@ -2,10 +2,12 @@ import { useLoaderData } from "react-router";
 import { notFound, requireViewer } from "~/auth/gate.server";
 import { CautionFooter } from "~/components/caution";
 import { CalendarDate } from "~/components/calendar-date";
-import { PlanTable } from "~/components/plan-table";
+import { PlanList } from "~/components/checkoffs/orientation-plans";
+import { listOrientationPlans } from "~/db/queries/checkoffs-orientation.server";
 import { getPlan } from "~/db/queries/plan.server";
 import { statusOptionsFor } from "~/db/queries/people.server";
 import { countStatuses } from "~/domain/status";
+import { PlanLedger } from "./plan-ledger";
 import type { Route } from "./+types/index";
 
 export async function loader({ context }: Route.LoaderArgs) {
@@ -14,11 +16,20 @@ export async function loader({ context }: Route.LoaderArgs) {
   const rows = await getPlan(viewer.org.id, viewer.person.id, viewer.org.timeZone, options);
   if (!rows) notFound("We could not find your record in this organisation.");
   const notStarted = rows.filter((r) => r.result.status === "not-started").length;
-  return { today: options.today, reminderDays: options.reminderDays, timeZone: viewer.org.timeZone, rows, counts: { ...countStatuses(rows.map((r) => r.result)), notStarted } };
+  // A new hire's orientation plan belongs in their plan too (issue 7, item 5).
+  const orientation = await listOrientationPlans(viewer.org.id, { kind: "person", personId: viewer.person.id });
+  return {
+    today: options.today,
+    reminderDays: options.reminderDays,
+    timeZone: viewer.org.timeZone,
+    rows,
+    orientation,
+    counts: { ...countStatuses(rows.map((r) => r.result)), notStarted },
+  };
 }
 
 export default function MyPlan() {
-  const { today, reminderDays, timeZone, rows, counts } = useLoaderData<typeof loader>();
+  const { today, reminderDays, timeZone, rows, orientation, counts } = useLoaderData<typeof loader>();
   return (
     <>
       <h1 className="text-3xl font-semibold">My plan</h1>
@@ -26,6 +37,12 @@ export default function MyPlan() {
         Your exams, check-offs and credentials, soonest first — anything overdue is at the top. Today is{" "}
         <CalendarDate value={today} long /> ({timeZone}). “Due soon” means within {reminderDays} days.
       </p>
+
+      {orientation.length > 0 ? (
+        <div className="mt-6">
+          <PlanList heading="My orientation plan" plans={orientation} today={today} />
+        </div>
+      ) : null}
 
       {rows.length === 0 ? (
         <section aria-labelledby="plan-empty" className="mt-8 max-w-2xl rounded-lg border border-rule bg-card px-6 py-8">
@@ -43,7 +60,7 @@ export default function MyPlan() {
             {summaryLine(counts)}
           </p>
           <div className="mt-4 rounded-lg border border-rule bg-card px-4 pt-2">
-            <PlanTable rows={rows} caption="Your plan in due-date order, overdue and soonest first" captionHidden />
+            <PlanLedger rows={rows} />
           </div>
         </>
       )}

@@ -45,6 +45,15 @@ export default function Team() {
         Credential counts use each person's current card of each type; “due soon” means within {reminderDays} days.
       </p>
 
+      <p className="mt-3 flex flex-wrap gap-x-6 gap-y-1">
+        <Link to="/team/matrix" className="font-semibold">
+          Compliance: by unit, upcoming expiries, people × requirements
+        </Link>
+        <Link to="/team/requirements" className="font-semibold">
+          Requirements and their regulatory references
+        </Link>
+      </p>
+
       <Form method="get" role="search" aria-label="People" className="mt-6 flex max-w-2xl flex-wrap items-start gap-3">
         <TextField
           id="team-q"
