@@ -15,6 +15,9 @@ import type {
   itemVersionTopics,
   organisations,
   orientationPlanItems,
+  checkoffs,
+  checkoffStepResults,
+  signatures,
   orientationPlans,
   people,
   personRoles,
@@ -49,6 +52,9 @@ export type Dataset = {
   assignments: (typeof assignments.$inferInsert)[];
   orientationPlans: (typeof orientationPlans.$inferInsert)[];
   orientationPlanItems: (typeof orientationPlanItems.$inferInsert)[];
+  checkoffs: (typeof checkoffs.$inferInsert)[];
+  checkoffStepResults: (typeof checkoffStepResults.$inferInsert)[];
+  signatures: (typeof signatures.$inferInsert)[];
 };
 
 export function emptyDataset(): Dataset {
@@ -74,6 +80,9 @@ export function emptyDataset(): Dataset {
     assignments: [],
     orientationPlans: [],
     orientationPlanItems: [],
+    checkoffs: [],
+    checkoffStepResults: [],
+    signatures: [],
   };
 }
 

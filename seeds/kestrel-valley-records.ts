@@ -7,7 +7,8 @@ import { addDays, addMonths, instantOn, type IsoDate } from "./calendar";
 import type { CredentialTypeCode, CredentialTypeRef, ExamKey, OrgContext } from "./catalogue";
 import { drawStatus, type DateStatus } from "./credential-dates";
 import { addCredential, type CredentialOptions, type CredentialPlan } from "./credential-records";
-import type { KvPerson, KvRoster, KvUnitKey } from "./kestrel-valley";
+import { KESTREL_VALLEY, type KvPerson, type KvRoster, type KvUnitKey } from "./kestrel-valley";
+import { addSignedCheckoff } from "./orientation-checkoffs";
 import { prngFor, type Prng } from "./prng";
 
 export type KvCatalogue = {
@@ -189,9 +190,12 @@ function addOrientationPlans(ctx: OrgContext, roster: KvRoster, cat: KvCatalogue
         checklistId: item.kind === "checklist" ? cat.checklists.get(item.ref ?? "") : null,
         title: item.title,
         dueOn,
-        // Only the talks and walk-throughs are marked done: exams and check-offs need attempts and signatures.
+        // Talks and walk-throughs are ticked off; a check-off part is done through its signed check-off below.
         completedAt: item.kind === "other" && dueOn < ctx.today ? instantOn(dueOn, 240) : null,
       });
+      if (item.kind === "checklist" && item.ref && dueOn < ctx.today) {
+        addSignedCheckoff(ctx, { hire, preceptor, checklistKey: item.ref, on: dueOn, timeZone: KESTREL_VALLEY.timeZone });
+      }
     });
   });
 }

@@ -136,7 +136,10 @@ describe("re-seeding the demo", () => {
     expect(await db.db.select().from(checkoffs).where(eq(checkoffs.id, id))).toEqual([]);
     const rows = await db.client.execute("SELECT count(*) AS n FROM sqlite_master WHERE type = 'trigger'");
     expect(Number(rows.rows[0].n)).toBeGreaterThanOrEqual(IMMUTABILITY_TRIGGERS.length);
-    await expect(db.client.execute("DELETE FROM signatures")).resolves.toBeDefined(); // nothing left to protect
+    // The seed's own signed orientation check-offs are back, and protected like any other.
+    const seededSignatures = Number((await db.client.execute("SELECT count(*) AS n FROM signatures")).rows[0].n);
+    expect(seededSignatures).toBeGreaterThan(0);
+    await expect(db.client.execute("DELETE FROM signatures")).rejects.toThrow(/signature cannot be removed/);
     const again = await viewerFor("therapist@kestrelvalley.test");
     const p = await viewerFor("preceptor@kestrelvalley.test");
     await givePin(again, PINS.therapist);

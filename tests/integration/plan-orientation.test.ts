@@ -27,3 +27,25 @@ describe("My plan shows a new hire's orientation plan", () => {
     expect(therapist.orientation).toEqual([]);
   });
 });
+
+describe("the demo's new hires stand at different stages", () => {
+  it("their plans show different progress, and every seeded signature holds against its record", async () => {
+    const { listOrientationPlans } = await import("~/db/queries/checkoffs-orientation.server");
+    const { getCheckoffRecord } = await import("~/db/queries/checkoffs.server");
+    const { signaturesHold } = await import("~/db/queries/checkoffs-signing.server");
+    const { checkoffs } = await import("~/db/schema");
+    const kv = await viewerFor("manager@kestrelvalley.test");
+    const plans = await listOrientationPlans(kv.org.id, { kind: "all" });
+    const done = plans.map((p) => p.items.filter((i) => i.done).length).sort((a, b) => a - b);
+    expect(plans).toHaveLength(3);
+    expect(new Set(done).size).toBe(3);
+
+    const seeded = await db.db.select({ id: checkoffs.id }).from(checkoffs).where(eq(checkoffs.status, "acknowledged"));
+    expect(seeded.length).toBeGreaterThan(0);
+    for (const { id } of seeded) {
+      const record = await getCheckoffRecord(kv.org.id, id);
+      expect(record?.signatures).toHaveLength(2);
+      expect(signaturesHold(record!).every((s) => s.holds)).toBe(true);
+    }
+  });
+});
