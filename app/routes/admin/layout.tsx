@@ -1,10 +1,11 @@
-import { NavLink, Outlet } from "react-router";
+import { Outlet } from "react-router";
 import { gate } from "~/auth/gate.server";
+import { SectionTabs, type SectionTab } from "~/components/section-tabs";
 import type { Route } from "./+types/layout";
 
 export const middleware: Route.MiddlewareFunction[] = [gate("section:admin")];
 
-const TABS = [
+const TABS: SectionTab[] = [
   { to: "/admin", label: "Organisation", end: true },
   { to: "/admin/units", label: "Units", end: false },
   { to: "/admin/people", label: "People", end: false },
@@ -17,23 +18,7 @@ export default function AdminLayout() {
     <div className="flex flex-col gap-6">
       <div>
         <h1 className="text-3xl font-semibold">Admin</h1>
-        <nav aria-label="Admin" className="mt-3 border-b border-rule">
-          <ul className="flex gap-1">
-            {TABS.map((t) => (
-              <li key={t.to}>
-                <NavLink
-                  to={t.to}
-                  end={t.end}
-                  className={({ isActive }) =>
-                    `inline-flex min-h-11 items-center border-b-[3px] px-3 font-semibold no-underline ${isActive ? "border-sea text-ink" : "border-transparent text-sea"}`
-                  }
-                >
-                  {t.label}
-                </NavLink>
-              </li>
-            ))}
-          </ul>
-        </nav>
+        <SectionTabs label="Admin" tabs={TABS} className="mt-3" />
       </div>
       <Outlet />
     </div>

@@ -2,7 +2,8 @@ import { Form, Link, useLoaderData, useNavigation } from "react-router";
 import { requireViewer } from "~/auth/gate.server";
 import { ROLE_LABELS, ROLES } from "~/auth/roles";
 import { LedgerTable, Td, Th } from "~/components/admin/ledger";
-import { Button, buttonClass } from "~/components/ui/button";
+import { buttonClass } from "~/components/ui/button";
+import { FilterActions } from "~/components/ui/filter-actions";
 import { SelectField, TextField } from "~/components/ui/field";
 import { listPeople, unitOptions } from "~/db/queries/admin-people.server";
 import { readPeopleFilter, type PeopleFilter } from "./schemas";
@@ -76,16 +77,7 @@ export default function People() {
             { value: "all", label: "Active and inactive" },
           ]}
         />
-        <div className="flex items-start gap-2 md:mb-7 md:self-end">
-          <Button type="submit" variant="secondary">
-            Show
-          </Button>
-          {filtered ? (
-            <Link to="/admin/people" className={buttonClass("quiet")}>
-              Clear
-            </Link>
-          ) : null}
-        </div>
+        <FilterActions clearTo="/admin/people" filtered={filtered} className="md:mb-7 md:self-end" />
       </Form>
 
       <p role="status" aria-live="polite" className="text-muted">

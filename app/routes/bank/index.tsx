@@ -2,7 +2,8 @@ import { Form, Link, useLoaderData } from "react-router";
 import { requireViewer } from "~/auth/gate.server";
 import { LedgerTable, Td, Th } from "~/components/admin/ledger";
 import { ItemStatusMark } from "~/components/bank/item-status-mark";
-import { Button, buttonClass } from "~/components/ui/button";
+import { buttonClass } from "~/components/ui/button";
+import { FilterActions } from "~/components/ui/filter-actions";
 import { SelectField, TextField } from "~/components/ui/field";
 import { listAuthors, listItems, listTopics, type BankFilter } from "~/db/queries/bank.server";
 import { ITEM_TYPE_LABELS, ITEM_TYPE_LIST, type ItemType } from "~/domain/bank/item-content";
@@ -90,16 +91,7 @@ export default function BankIndex() {
             { value: "oldest", label: "Oldest first" },
           ]}
         />
-        <div className="flex items-start gap-2">
-          <Button type="submit" variant="secondary">
-            Show
-          </Button>
-          {filtered ? (
-            <Link to="/bank" className={buttonClass("quiet")}>
-              Clear
-            </Link>
-          ) : null}
-        </div>
+        <FilterActions clearTo="/bank" filtered={filtered} />
       </Form>
 
       <p role="status" aria-live="polite" className="text-muted">
