@@ -135,6 +135,22 @@ describe("a cell: evidence, waiver and extension", () => {
     const after = await matrix(manager, `?q=${encodeURIComponent(row.name)}`);
     const col = after.columns.findIndex((c) => c.id === reqId);
     expect(decodeCells(after.rows.find((r) => r.id === row.id)!.cells)[col]).toEqual(["waived", expect.anything(), expect.any(String), "2027-03-31"]);
+
+    // Revoking ends it before its date: refused to an educator and to another organisation's
+    // manager, a reason is required, then it is audited and the cell is Lapsed again.
+    const p = { personId: row.id, requirementId: reqId };
+    const revoke = (reason: string) => postForm(path, { intent: "revoke-waiver", waiverId: w.id, reason });
+    expect(await status(() => cellRoute.action(args<CellActionArgs>(revoke("Back at work"), world.viewers.educator, p)))).toBe(403);
+    expect(await status(() => cellRoute.action(args<CellActionArgs>(revoke("Back at work"), world.viewers.abManager, p)))).toBe(404);
+    expect(await status(() => cellRoute.action(args<CellActionArgs>(revoke(""), manager, p)))).toBe(400);
+    expect(await status(() => cellRoute.action(args<CellActionArgs>(revoke("Back at work early"), manager, p)))).toBe(302);
+    const [revoked] = await world.db.db.select().from(waivers).where(eq(waivers.id, w.id));
+    expect(revoked.revokedAt).toBeInstanceOf(Date);
+    expect(await world.db.db.select().from(auditEvents).where(and(eq(auditEvents.entityId, w.id), eq(auditEvents.action, "waiver.revoked")))).toHaveLength(1);
+    // A second revoke finds nothing in force.
+    expect(await status(() => cellRoute.action(args<CellActionArgs>(revoke("Again"), manager, p)))).toBe(404);
+    const again = await matrix(manager, `?q=${encodeURIComponent(row.name)}`);
+    expect(decodeCells(again.rows.find((r) => r.id === row.id)!.cells)[col]?.[0]).toBe("lapsed");
   });
 
   it("an educator reads a cell but cannot grant; another organisation's manager cannot open it", async () => {

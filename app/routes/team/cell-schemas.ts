@@ -2,7 +2,7 @@
 import { z } from "zod";
 import { isIsoDate } from "~/domain/validity";
 
-export const CELL_INTENTS = { waive: "grant-waiver", extend: "grant-extension", verify: "verify-credential" } as const;
+export const CELL_INTENTS = { waive: "grant-waiver", revoke: "revoke-waiver", extend: "grant-extension", verify: "verify-credential" } as const;
 
 const futureDate = (label: string) =>
   z
@@ -16,3 +16,4 @@ const reason = z.string({ error: "Give the reason; it is kept with the record." 
 export const waiverSchema = z.object({ intent: z.literal(CELL_INTENTS.waive), reason, endsOn: futureDate("end date") });
 export const extensionSchema = z.object({ intent: z.literal(CELL_INTENTS.extend), reason, newDueOn: futureDate("new due date") });
 export const verifySchema = z.object({ intent: z.literal(CELL_INTENTS.verify), credentialId: z.string().min(1), method: z.string().trim().min(3).max(200) });
+export const revokeSchema = z.object({ intent: z.literal(CELL_INTENTS.revoke), waiverId: z.string().min(1), reason });

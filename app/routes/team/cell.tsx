@@ -14,9 +14,9 @@ import { VERIFICATION_METHODS } from "~/routes/credentials/schemas";
 import { statusOptionsFor } from "~/db/queries/people.server";
 import { getPlan } from "~/db/queries/plan.server";
 import { matrixScopeFor, personInScope } from "~/db/queries/team-matrix.server";
-import { grantExtension, grantWaiver } from "~/db/queries/waivers.server";
+import { grantExtension, grantWaiver, revokeWaiver } from "~/db/queries/waivers.server";
 import type { Evidence } from "~/domain/status/engine";
-import { CELL_INTENTS, extensionSchema, verifySchema, waiverSchema } from "./cell-schemas";
+import { CELL_INTENTS, extensionSchema, revokeSchema, verifySchema, waiverSchema } from "./cell-schemas";
 import type { Route } from "./+types/cell";
 
 /** Only addresses inside Team are followed back, never one from elsewhere. */
@@ -59,6 +59,14 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     if (submission.status !== "success") return data(submission.reply(), { status: 400 });
     await grantWaiver(viewer.org.id, viewer.person.id, { personId: person.id, requirementId: params.requirementId, reason: submission.value.reason, endsOn: submission.value.endsOn });
     return redirectWithToast(back, `Waiver granted to ${person.name} through ${formatCalendarDate(submission.value.endsOn)}.`);
+  }
+  if (intent === CELL_INTENTS.revoke) {
+    const submission = parseWithZod(formData, { schema: revokeSchema });
+    if (submission.status !== "success") return data(submission.reply(), { status: 400 });
+    const revoked = await revokeWaiver(viewer.org.id, viewer.person.id, { ...submission.value, personId: person.id, requirementId: params.requirementId });
+    if (!revoked) notFound("That waiver is not in force for this person and requirement.", true);
+    const self = new URL(request.url);
+    return redirectWithToast(`${self.pathname}${self.search}`, `Waiver revoked for ${person.name}. The reason is recorded.`);
   }
   if (intent === CELL_INTENTS.extend) {
     const submission = parseWithZod(formData, { schema: extensionSchema });
@@ -112,6 +120,7 @@ export default function Cell() {
             {row.evidence.map((e, i) => (
               <li key={i} className="rounded-md border border-rule bg-card p-3">
                 <EvidenceLine evidence={e} personId={person.id} />
+                {e.kind === "waiver" && canManage ? <RevokeWaiver waiverId={e.id} /> : null}
               </li>
             ))}
           </ul>
@@ -164,6 +173,25 @@ function EvidenceLine({ evidence: e, personId }: { evidence: Evidence; personId:
         </>
       );
   }
+}
+
+/** Destructive, so it asks twice in place: open, give the reason, confirm. */
+function RevokeWaiver({ waiverId }: { waiverId: string }) {
+  return (
+    <details className="mt-2">
+      <summary className="inline-flex min-h-11 cursor-pointer items-center font-semibold text-coral">Revoke this waiver…</summary>
+      <Form method="post" className="mt-2 flex flex-col gap-2">
+        <input type="hidden" name="intent" value={CELL_INTENTS.revoke} />
+        <input type="hidden" name="waiverId" value={waiverId} />
+        <TextField id={`revoke-reason-${waiverId}`} name="reason" label="Why it ends now" required minLength={3} maxLength={500} />
+        <div>
+          <Button type="submit" variant="danger">
+            Yes, revoke the waiver
+          </Button>
+        </div>
+      </Form>
+    </details>
+  );
 }
 
 function VerifyForm({ credentialId }: { credentialId: string }) {
