@@ -86,6 +86,8 @@ export type CredentialRow = {
   verifiedAt: Date | null;
   verifiedByName: string | null;
   verificationMethod: string | null;
+  /** The type's reinstatement window after expiry, in months (the board credential's 6), or null. */
+  reinstatementMonths: number | null;
 };
 
 const verifier = alias(people, "verifier");
@@ -104,6 +106,7 @@ function credentialSelect() {
     verifiedAt: credentials.verifiedAt,
     verifiedByName: verifier.name,
     verificationMethod: credentials.verificationMethod,
+    reinstatementMonths: credentialTypes.reinstatementMonths,
   };
 }
 

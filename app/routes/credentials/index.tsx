@@ -24,6 +24,7 @@ import {
 import { statusOptionsFor } from "~/db/queries/people.server";
 import { heldStatus, isIsoDate } from "~/domain/status";
 import { describeRule, validThroughForType } from "~/domain/validity";
+import { ReinstatementNote } from "./reinstatement-note";
 import { MAX_UPLOAD_BYTES } from "~/files/file-type";
 import { bodyTooLarge, fileBytes } from "~/files/store.server";
 import { StatusMark } from "~/components/ui/status-mark";
@@ -134,7 +135,7 @@ export default function Credentials() {
         <h2 id="held-heading" className="text-2xl font-semibold">
           {isSelf ? "Your credentials" : `${subject.name}’s credentials`}
         </h2>
-        {held.length === 0 ? <p className="mt-2">Nothing recorded yet.</p> : <CredentialTable rows={held} timeZone={timeZone} showPerson={false} />}
+        {held.length === 0 ? <p className="mt-2">Nothing recorded yet.</p> : <CredentialTable rows={held} timeZone={timeZone} today={today} showPerson={false} />}
       </section>
 
       <RecordForm key={subject.id} subject={subject} types={types} isSelf={isSelf} preselectType={preselectType} />
@@ -183,7 +184,7 @@ function PersonPicker({ managed, subjectId, isSelf }: { managed: { id: string; n
 
 type HeldRow = CredentialRow & { result: ReturnType<typeof heldStatus> };
 
-function CredentialTable({ rows, timeZone, showPerson }: { rows: HeldRow[]; timeZone: string; showPerson: boolean }) {
+function CredentialTable({ rows, timeZone, today, showPerson }: { rows: HeldRow[]; timeZone: string; today: string; showPerson: boolean }) {
   return (
     <table className="mt-3 w-full border-collapse text-left">
       <caption className="sr-only">Credentials with their dates, verification and scan</caption>
@@ -214,6 +215,7 @@ function CredentialTable({ rows, timeZone, showPerson }: { rows: HeldRow[]; time
             <td className="py-2 pr-4">{c.validThrough ? <CalendarDate value={c.validThrough} /> : "No expiry"}</td>
             <td className="py-2 pr-4">
               <StatusMark status={c.result.status} detail={statusDetail({ result: c.result, dateMeaning: "valid-through" })} />
+              <ReinstatementNote status={c.result.status} validThrough={c.validThrough} reinstatementMonths={c.reinstatementMonths} today={today} />
             </td>
             <td className="py-2 pr-4 text-sm">
               {c.verifiedAt ? (
