@@ -7,7 +7,7 @@
 import type { FieldMetadata } from "@conform-to/react";
 import { useMemo, useState } from "react";
 import { WaveformPlot } from "~/components/waveform";
-import { FormErrors, SelectField, TextAreaField, TextField } from "~/components/ui/field";
+import { FormErrors, SelectField, TextAreaField, TextField, fromConform } from "~/components/ui/field";
 import { generateScenarioItem, SCENARIO_TEMPLATES, simulate, TEMPLATE_IDS, type TemplateId } from "~/domain/bench";
 import { placeholderNames } from "~/domain/bank/present";
 import { canNarrow } from "~/domain/bank/scenario-ranges";
@@ -30,35 +30,29 @@ export function ItemFormFields({ fields, topics }: { fields: ItemFields; topics:
     <>
       <SelectField
         key={fields.kind.key}
-        id={fields.kind.id}
-        name={fields.kind.name}
+        {...fromConform(fields.kind, { keepValue: false })}
         label="Type"
         defaultValue={kind}
-        errors={fields.kind.errors}
         onChange={(e) => setKind(e.target.value as FormKind)}
         options={FORM_KINDS.map((k) => ({ value: k, label: FORM_KIND_LABELS[k] }))}
         className="flex max-w-md flex-col gap-1"
       />
       <TextAreaField
         key={fields.stem.key}
-        id={fields.stem.id}
-        name={fields.stem.name}
+        {...fromConform(fields.stem, { keepValue: false })}
         label="Stem"
         hint={kind === "scenario" ? "Use {names} for the drawn values (listed with the template below); {prompt} inserts the template's own question." : "The question as the therapist reads it."}
         defaultValue={str(fields.stem)}
-        errors={fields.stem.errors}
         rows={4}
       />
       <SelectField
         key={fields.topics.key}
-        id={fields.topics.id}
-        name={fields.topics.name}
+        {...fromConform(fields.topics, { keepValue: false })}
         label="Topics"
         hint="Hold Ctrl (or ⌘) to choose more than one."
         multiple
         size={Math.min(8, topics.length)}
         defaultValue={initialTopics}
-        errors={fields.topics.errors}
         options={topics.map((t) => ({ value: t.slug, label: t.name }))}
         className="flex max-w-md flex-col gap-1"
       />
@@ -67,12 +61,10 @@ export function ItemFormFields({ fields, topics }: { fields: ItemFields; topics:
           <TextAreaField key={fields.options.key} id={fields.options.id} name={fields.options.name} label="Options" hint="One option per line, two to eight." defaultValue={str(fields.options)} errors={fields.options.errors} rows={6} />
           <TextField
             key={fields.correct.key}
-            id={fields.correct.id}
-            name={fields.correct.name}
+            {...fromConform(fields.correct, { keepValue: false })}
             label={kind === "single" ? "Correct option" : "Correct options"}
             hint={kind === "single" ? "Its line number, like 2." : "Their line numbers, like 1, 3."}
             defaultValue={str(fields.correct)}
-            errors={fields.correct.errors}
           />
         </div>
       ) : null}
@@ -92,12 +84,10 @@ export function ItemFormFields({ fields, topics }: { fields: ItemFields; topics:
       <TextAreaField key={fields.rationale.key} id={fields.rationale.id} name={fields.rationale.name} label="Rationale" hint="Shown to the therapist after grading." defaultValue={str(fields.rationale)} errors={fields.rationale.errors} rows={4} />
       <TextField
         key={fields.reference.key}
-        id={fields.reference.id}
-        name={fields.reference.name}
+        {...fromConform(fields.reference, { keepValue: false })}
         label="Reference"
         hint="A textbook, guideline, standard or paper: authors, title, year."
         defaultValue={str(fields.reference)}
-        errors={fields.reference.errors}
       />
     </>
   );
@@ -119,12 +109,10 @@ function WaveformFields({ fields }: { fields: ItemFields }) {
     <div className="flex flex-col gap-2 rounded-md border border-rule p-3">
       <SelectField
         key={fields.preset.key}
-        id={fields.preset.id}
-        name={fields.preset.name}
+        {...fromConform(fields.preset, { keepValue: false })}
         label="Bench run"
         value={presetId}
         onChange={(e) => setPresetId(e.target.value)}
-        errors={fields.preset.errors}
         options={WAVEFORM_PRESETS.map((p) => ({ value: p.id, label: p.label }))}
       />
       <input type="hidden" name={fields.viewFromS.name} value="0" />
@@ -168,12 +156,10 @@ function ScenarioFields({ fields }: { fields: ItemFields }) {
     <div className="flex flex-col gap-2 rounded-md border border-rule p-3">
       <SelectField
         key={fields.templateId.key}
-        id={fields.templateId.id}
-        name={fields.templateId.name}
+        {...fromConform(fields.templateId, { keepValue: false })}
         label="Bench template"
         value={templateId}
         onChange={(e) => setTemplateId(e.target.value as TemplateId)}
-        errors={fields.templateId.errors}
         options={TEMPLATE_IDS.map((id) => ({ value: id, label: SCENARIO_TEMPLATES[id].title }))}
       />
       <p className="text-sm">
@@ -213,12 +199,10 @@ function ScenarioFields({ fields }: { fields: ItemFields }) {
       )}
       <TextField
         key={fields.previewSeeds.key}
-        id={fields.previewSeeds.id}
-        name={fields.previewSeeds.name}
+        {...fromConform(fields.previewSeeds, { keepValue: false })}
         label="Preview seeds"
         hint="One to six whole numbers, like 1, 2, 3: each draws its own numbers; the answer is computed by the bench."
         defaultValue={str(fields.previewSeeds) ?? "1, 2, 3"}
-        errors={fields.previewSeeds.errors}
       />
     </div>
   );

@@ -49,13 +49,23 @@ type ConformFieldMeta = { id: string; name: string; initialValue?: unknown; erro
  * The props a field takes from conform's metadata: id, name, the value to show and the errors.
  * The `key` stays separate (React does not take it from a spread).
  */
-export function fromConform(meta: ConformFieldMeta) {
+export function fromConform(meta: ConformFieldMeta, options: { keepValue?: boolean } = {}) {
   return {
     id: meta.id,
     name: meta.name,
-    defaultValue: typeof meta.initialValue === "string" ? meta.initialValue : undefined,
+    // Secrets (PINs, one-time codes) are never written back into the page after a refusal.
+    defaultValue: options.keepValue !== false && typeof meta.initialValue === "string" ? meta.initialValue : undefined,
     errors: meta.errors,
   };
+}
+
+/**
+ * Where one page has several forms, each told apart by its `intent`: the last submission's
+ * result if it came from this form, so errors land beside the right fields.
+ */
+export function resultFor<T>(result: T | undefined, intent: string): T | undefined {
+  const initial = (result as { initialValue?: { intent?: unknown } | null } | undefined)?.initialValue;
+  return initial?.intent === intent ? result : undefined;
 }
 
 const controlClass =

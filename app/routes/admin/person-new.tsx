@@ -63,7 +63,7 @@ export default function NewPerson() {
         <PersonFields fields={fields} units={units} />
         <SelectField
           key={fields.firstRole.key}
-          {...fromConform(fields.firstRole)}
+          {...fromConform(fields.firstRole, { keepValue: false })}
           label="First role"
           hint="More roles, and a manager's units, are on the person's page."
           defaultValue={typeof fields.firstRole.initialValue === "string" ? fields.firstRole.initialValue : "none"}

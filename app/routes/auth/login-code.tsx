@@ -72,7 +72,7 @@ export default function LoginCode() {
       <Form method="post" {...getFormProps(form)} className="flex flex-col gap-2">
         <FormErrors id={form.errorId} errors={form.errors} />
         <TextField
-          {...fromConform(fields.code)}
+          {...fromConform(fields.code, { keepValue: false })}
           label="6-digit code"
           autoComplete="one-time-code"
           inputMode="numeric"

@@ -9,7 +9,7 @@ import { isSigned } from "~/auth/checkoff-policy";
 import { SignatureBlock } from "~/components/checkoffs/signature-block";
 import { CalendarDate } from "~/components/calendar-date";
 import { Button } from "~/components/ui/button";
-import { FieldFrame, FormErrors, SelectField, TextAreaField, TextField } from "~/components/ui/field";
+import { FieldFrame, FormErrors, SelectField, TextAreaField, TextField, resultFor, fromConform } from "~/components/ui/field";
 import { OUTCOME_WORDS } from "~/domain/checkoffs/record";
 import { addendumSchema, CHECKOFF_INTENTS, outcomeSchema, signSchema } from "./schemas";
 import type { action, loader } from "./checkoff";
@@ -61,24 +61,18 @@ export function OutcomeForm({ d }: { d: LoaderData }) {
         <SelectField key={fields.outcome.key} id={fields.outcome.id} name={fields.outcome.name} label="Outcome" options={options} defaultValue={fields.outcome.initialValue as string} errors={fields.outcome.errors} />
         <TextAreaField
           key={fields.practicePlan.key}
-          id={fields.practicePlan.id}
-          name={fields.practicePlan.name}
+          {...fromConform(fields.practicePlan)}
           label="Practice plan (needs practice)"
           hint="What to practise, and how."
           rows={3}
-          defaultValue={fields.practicePlan.initialValue as string}
-          errors={fields.practicePlan.errors}
         />
         <TextField
           key={fields.practiceBy.key}
-          id={fields.practiceBy.id}
-          name={fields.practiceBy.name}
+          {...fromConform(fields.practiceBy)}
           type="date"
           min={d.today}
           label="Practise by (needs practice)"
           hint="A repeat check-off is scheduled for this date when you sign."
-          defaultValue={fields.practiceBy.initialValue as string}
-          errors={fields.practiceBy.errors}
         />
         <div>
           <Button type="submit" variant="secondary" name="intent" value={CHECKOFF_INTENTS.outcome} disabled={fetcher.state !== "idle"}>
@@ -111,7 +105,7 @@ export function SignForm({
   const navigation = useNavigation();
   const [form, fields] = useForm({
     id: intent,
-    lastResult: navigation.state === "idle" && (lastResult as { initialValue?: { intent?: string } } | undefined)?.initialValue?.intent === intent ? lastResult : undefined,
+    lastResult: navigation.state === "idle" ? resultFor(lastResult, intent) : undefined,
     constraint: getZodConstraint(signSchema),
     shouldValidate: "onSubmit",
     onValidate: ({ formData }) => parseWithZod(formData, { schema: signSchema }),
@@ -139,26 +133,21 @@ export function SignForm({
         <input type="hidden" name="intent" value={intent} />
         <TextField
           key={fields.email.key}
-          id={fields.email.id}
-          name={fields.email.name}
+          {...fromConform(fields.email)}
           type="email"
           autoComplete="off"
           label={emailRequired ? "Signer's work e-mail" : "Signer's work e-mail (shared tablet only)"}
           hint={emailHint}
           required={emailRequired}
-          defaultValue={fields.email.initialValue as string}
-          errors={fields.email.errors}
         />
         <TextField
           key={fields.pin.key}
-          id={fields.pin.id}
-          name={fields.pin.name}
+          {...fromConform(fields.pin, { keepValue: false })}
           type="password"
           inputMode="numeric"
           autoComplete="off"
           label="Signing PIN"
           hint="Your own PIN of at least 6 digits. Five wrong PINs lock signing for 15 minutes."
-          errors={fields.pin.errors}
           required
         />
         <div>
@@ -175,7 +164,7 @@ export function AddendaSection({ d }: { d: LoaderData }) {
   const { record, may } = d;
   const lastResult = useActionData<typeof action>() as SubmissionResult<string[]> | undefined;
   const navigation = useNavigation();
-  const mine = (lastResult as { initialValue?: { intent?: string } } | undefined)?.initialValue?.intent === CHECKOFF_INTENTS.addendum;
+  const mine = resultFor(lastResult, CHECKOFF_INTENTS.addendum) !== undefined;
   const [form, fields] = useForm({
     id: "addendum",
     lastResult: navigation.state === "idle" && mine ? lastResult : undefined,
@@ -208,14 +197,11 @@ export function AddendaSection({ d }: { d: LoaderData }) {
           <TextAreaField key={fields.text.key} id={fields.text.id} name={fields.text.name} label="Correction or note" rows={3} defaultValue={fields.text.initialValue as string} errors={fields.text.errors} required />
           <TextField
             key={fields.email.key}
-            id={fields.email.id}
-            name={fields.email.name}
+            {...fromConform(fields.email)}
             type="email"
             autoComplete="off"
             label="Signer's work e-mail (shared tablet only)"
             hint="Leave empty to sign as yourself."
-            defaultValue={fields.email.initialValue as string}
-            errors={fields.email.errors}
           />
           <TextField key={fields.pin.key} id={fields.pin.id} name={fields.pin.name} type="password" inputMode="numeric" autoComplete="off" label="Signing PIN" errors={fields.pin.errors} required />
           <div>

@@ -10,7 +10,7 @@ import { CautionFooter } from "~/components/caution";
 import { CheckoffStatusMark } from "~/components/checkoffs/checkoff-status";
 import { formatInstantDate } from "~/components/calendar-date";
 import { Button } from "~/components/ui/button";
-import { FormErrors, SelectField } from "~/components/ui/field";
+import { FormErrors, SelectField, resultFor, fromConform } from "~/components/ui/field";
 import { listOwnCheckoffs, listPublishedChecklists, listRecentCheckoffs, listTherapists, listToObserve, type CheckoffListRow } from "~/db/queries/checkoffs.server";
 import { actorOf, requestCheckoff, startCheckoffFor } from "~/db/queries/checkoffs-write.server";
 import { OUTCOME_WORDS } from "~/domain/checkoffs/record";
@@ -138,7 +138,7 @@ function RequestForm({ d }: { d: IndexData }) {
   const last = useActionData<typeof action>() as SubmissionResult<string[]> | undefined;
   const [form, fields] = useForm({
     id: "request",
-    lastResult: (last as { initialValue?: { intent?: string } } | undefined)?.initialValue?.intent === INDEX_INTENTS.request ? last : undefined,
+    lastResult: resultFor(last, INDEX_INTENTS.request),
     constraint: getZodConstraint(requestSchema),
     onValidate: ({ formData }) => parseWithZod(formData, { schema: requestSchema }),
   });
@@ -149,11 +149,9 @@ function RequestForm({ d }: { d: IndexData }) {
       <input type="hidden" name="intent" value={INDEX_INTENTS.request} />
       <SelectField
         key={fields.checklistId.key}
-        id={fields.checklistId.id}
-        name={fields.checklistId.name}
+        {...fromConform(fields.checklistId, { keepValue: false })}
         label="Checklist"
         options={[{ value: "", label: "Choose a checklist…" }, ...d.checklists.map((c) => ({ value: c.id, label: c.title }))]}
-        errors={fields.checklistId.errors}
       />
       <div>
         <Button type="submit" disabled={navigation.state === "submitting"}>
@@ -168,7 +166,7 @@ function StartFor({ d }: { d: IndexData }) {
   const last = useActionData<typeof action>() as SubmissionResult<string[]> | undefined;
   const [form, fields] = useForm({
     id: "start-for",
-    lastResult: (last as { initialValue?: { intent?: string } } | undefined)?.initialValue?.intent === INDEX_INTENTS.startFor ? last : undefined,
+    lastResult: resultFor(last, INDEX_INTENTS.startFor),
     constraint: getZodConstraint(startForSchema),
     onValidate: ({ formData }) => parseWithZod(formData, { schema: startForSchema }),
   });
@@ -179,19 +177,15 @@ function StartFor({ d }: { d: IndexData }) {
       <input type="hidden" name="intent" value={INDEX_INTENTS.startFor} />
       <SelectField
         key={fields.personId.key}
-        id={fields.personId.id}
-        name={fields.personId.name}
+        {...fromConform(fields.personId, { keepValue: false })}
         label="Therapist"
         options={[{ value: "", label: "Choose the therapist…" }, ...d.therapists.map((p) => ({ value: p.id, label: p.name }))]}
-        errors={fields.personId.errors}
       />
       <SelectField
         key={fields.checklistId.key}
-        id={fields.checklistId.id}
-        name={fields.checklistId.name}
+        {...fromConform(fields.checklistId, { keepValue: false })}
         label="Checklist"
         options={[{ value: "", label: "Choose a checklist…" }, ...d.checklists.map((c) => ({ value: c.id, label: c.title }))]}
-        errors={fields.checklistId.errors}
       />
       <div>
         <Button type="submit">Start</Button>

@@ -4,7 +4,7 @@ import { data, Form, useActionData, useLoaderData } from "react-router";
 import { redirectWithToast } from "~/auth/flash.server";
 import { requireViewer } from "~/auth/gate.server";
 import { Button } from "~/components/ui/button";
-import { FormErrors, TextField } from "~/components/ui/field";
+import { FormErrors, TextField, fromConform } from "~/components/ui/field";
 import { hasSigningPin, setSigningPin } from "~/db/queries/checkoffs-signing.server";
 import { setPinSchema } from "./schemas";
 import type { Route } from "./+types/signing-pin";
@@ -51,25 +51,21 @@ export default function SigningPin() {
           <FormErrors id={form.errorId} errors={form.errors} />
           <TextField
             key={fields.pin.key}
-            id={fields.pin.id}
-            name={fields.pin.name}
+            {...fromConform(fields.pin, { keepValue: false })}
             type="password"
             inputMode="numeric"
             autoComplete="new-password"
             label="New signing PIN"
             hint="6 to 12 digits; not one digit repeated and not a run such as 123456."
-            errors={fields.pin.errors}
             required
           />
           <TextField
             key={fields.confirm.key}
-            id={fields.confirm.id}
-            name={fields.confirm.name}
+            {...fromConform(fields.confirm, { keepValue: false })}
             type="password"
             inputMode="numeric"
             autoComplete="new-password"
             label="The same PIN again"
-            errors={fields.confirm.errors}
             required
           />
           <div>

@@ -7,7 +7,7 @@ import { can } from "~/auth/roles";
 import { CautionFooter } from "~/components/caution";
 import { CalendarDate, formatCalendarDate } from "~/components/calendar-date";
 import { Button } from "~/components/ui/button";
-import { FormErrors, SelectField, TextField } from "~/components/ui/field";
+import { FormErrors, SelectField, TextField, resultFor } from "~/components/ui/field";
 import { STATUS_WORDS, StatusMark } from "~/components/ui/status-mark";
 import { personOf, verifyCredential } from "~/db/queries/credentials.server";
 import { VERIFICATION_METHODS } from "~/routes/credentials/schemas";
@@ -214,7 +214,7 @@ function WaiverForm({ today }: { today: string }) {
   const lastResult = useActionData<typeof action>();
   const [form, fields] = useForm({
     id: "waiver",
-    lastResult: lastResult && (lastResult.initialValue as Record<string, unknown> | null)?.intent === CELL_INTENTS.waive ? lastResult : undefined,
+    lastResult: resultFor(lastResult, CELL_INTENTS.waive),
     onValidate: ({ formData }) => parseWithZod(formData, { schema: waiverSchema }),
     shouldValidate: "onSubmit",
   });
@@ -238,7 +238,7 @@ function ExtensionForm({ today }: { today: string }) {
   const lastResult = useActionData<typeof action>();
   const [form, fields] = useForm({
     id: "extension",
-    lastResult: lastResult && (lastResult.initialValue as Record<string, unknown> | null)?.intent === CELL_INTENTS.extend ? lastResult : undefined,
+    lastResult: resultFor(lastResult, CELL_INTENTS.extend),
     onValidate: ({ formData }) => parseWithZod(formData, { schema: extensionSchema }),
     shouldValidate: "onSubmit",
   });

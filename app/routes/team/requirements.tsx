@@ -7,7 +7,7 @@ import { can, ROLE_LABELS, isRole } from "~/auth/roles";
 import { CautionFooter } from "~/components/caution";
 import { CalendarDate } from "~/components/calendar-date";
 import { Button } from "~/components/ui/button";
-import { FormErrors, SelectField, TextField } from "~/components/ui/field";
+import { FormErrors, SelectField, TextField, fromConform } from "~/components/ui/field";
 import { listReferences, listRequirements, updateRequirement, type RequirementView } from "~/db/queries/requirements.server";
 import { describeRule } from "~/domain/validity";
 import { requirementEditSchema } from "./requirement-schema";
@@ -123,18 +123,14 @@ function RequirementForm({ requirement: r, references }: { requirement: Requirem
       <p className="w-full font-semibold">{r.name}</p>
       <TextField id={fields.graceDays.id} name={fields.graceDays.name} errors={fields.graceDays.errors} label="Grace period (days)" defaultValue={String(r.graceDays)} inputMode="numeric" className="flex w-40 flex-col gap-1" />
       <SelectField
-        id={fields.regulatoryReferenceId.id}
-        name={fields.regulatoryReferenceId.name}
-        errors={fields.regulatoryReferenceId.errors}
+        {...fromConform(fields.regulatoryReferenceId, { keepValue: false })}
         label="Regulatory reference"
         defaultValue={r.reference?.id ?? ""}
         options={[{ value: "", label: "None" }, ...references.map((x) => ({ value: x.id, label: `${x.code} — ${x.title}` }))]}
         className="flex min-w-72 flex-1 flex-col gap-1"
       />
       <SelectField
-        id={fields.lapseLeaves.id}
-        name={fields.lapseLeaves.name}
-        errors={fields.lapseLeaves.errors}
+        {...fromConform(fields.lapseLeaves, { keepValue: false })}
         label="A lapse leaves"
         defaultValue={r.lapseLeaves}
         options={[
