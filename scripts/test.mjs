@@ -1,8 +1,9 @@
 /**
  * `npm test`: the whole suite, in the order a reviewer trusts it — types, unit and integration
  * tests, the production build, then the browser tests in Debian's chromium. Stops at the first
- * failing step and exits with its status. Installs chromium from apt when it is missing and
- * we are root; otherwise prints the one command to run.
+ * failing step and exits with its status. Installs what the tests need from Debian's packages
+ * when it is missing and we are root — chromium (browser tests) and poppler-utils (pdftotext and
+ * pdfinfo read our PDFs back) — otherwise prints the one command to run.
  */
 import { spawnSync } from "node:child_process";
 import { existsSync } from "node:fs";
@@ -30,24 +31,33 @@ function run(title, command, args, options = {}) {
   console.log(`✓ ${title} (${seconds} s)`);
 }
 
-function ensureChromium() {
-  if (existsSync(CHROMIUM)) return;
-  header("Installing Debian's chromium (needed by the browser tests)");
+/** Debian packages the suite needs, each with a file that shows it is installed. */
+const APT_NEEDS = [
+  { pkg: "chromium", file: CHROMIUM, why: "the browser tests" },
+  { pkg: "poppler-utils", file: "/usr/bin/pdftotext", why: "reading PDFs back in the tests" },
+];
+
+function ensureAptPackages() {
+  const missing = APT_NEEDS.filter((n) => !existsSync(n.file));
+  if (missing.length === 0) return;
+  const names = missing.map((n) => n.pkg).join(" ");
+  header(`Installing Debian's ${names} (needed by ${missing.map((n) => n.why).join(" and ")})`);
   const isRoot = typeof process.getuid === "function" && process.getuid() === 0;
   if (!isRoot) {
-    console.error(`${CHROMIUM} is missing. Install it once, then run npm test again:\n\n  sudo apt-get update && sudo apt-get install -y chromium\n`);
+    console.error(`${missing.map((n) => n.file).join(", ")} missing. Install once, then run npm test again:\n\n  sudo apt-get update && sudo apt-get install -y ${names}\n`);
     process.exit(1);
   }
   const env = { ...process.env, DEBIAN_FRONTEND: "noninteractive" };
   run("apt-get update", "apt-get", ["update"], { env });
-  run("apt-get install chromium", "apt-get", ["install", "-y", "chromium"], { env });
-  if (!existsSync(CHROMIUM)) {
-    console.error(`apt-get finished but ${CHROMIUM} is still missing.`);
+  run(`apt-get install ${names}`, "apt-get", ["install", "-y", ...missing.map((n) => n.pkg)], { env });
+  const still = missing.filter((n) => !existsSync(n.file));
+  if (still.length > 0) {
+    console.error(`apt-get finished but ${still.map((n) => n.file).join(", ")} is still missing.`);
     process.exit(1);
   }
 }
 
-ensureChromium();
+ensureAptPackages();
 run("Typecheck (react-router typegen + tsc)", "npm", ["run", "typecheck"]);
 run("Unit and integration tests (vitest)", bin("vitest"), ["run"]);
 run("Production build (react-router build)", bin("react-router"), ["build"]);
