@@ -194,14 +194,15 @@ describe("requirements and regulatory references", () => {
     const [ref] = await world.db.db.select().from(regulatoryReferences).where(eq(regulatoryReferences.orgId, educator.org.id)).limit(1);
     const [theirs] = await world.db.db.select().from(regulatoryReferences).where(eq(regulatoryReferences.orgId, world.viewers.abAdmin.org.id)).limit(1);
     const post = (viewer: Viewer, fields: Record<string, string>) => status(() => requirementsRoute.action(args(postForm("/team/requirements", fields), viewer)));
-    const body = { requirementId: req.id, graceDays: "30", regulatoryReferenceId: ref.id, lapseLeaves: "supervised" };
+    // Recurrence and audience are sent as the form shows them (unchanged); kind decides whether recurrence applies.
+    const body = { intent: "update-requirement", requirementId: req.id, recurrence: req.recurrence ?? "", unitId: req.unitId ?? "", role: req.role ?? "", graceDays: "30", regulatoryReferenceId: ref.id, lapseLeaves: "supervised" };
     expect(await post(world.viewers.therapist, body)).toBe(403);
     expect(await post(educator, { ...body, graceDays: "-1" })).toBe(400);
     expect(await post(educator, { ...body, regulatoryReferenceId: theirs.id })).toBe(400);
     expect(await post(world.viewers.abManager, body)).toBe(404);
     expect(await post(educator, body)).toBe(302);
     const [after] = await world.db.db.select().from(requirements).where(eq(requirements.id, req.id));
-    expect(after).toMatchObject({ graceDays: 30, regulatoryReferenceId: ref.id, lapseLeaves: "supervised" });
+    expect(after).toMatchObject({ graceDays: 30, regulatoryReferenceId: ref.id, lapseLeaves: "supervised", recurrence: req.recurrence, unitId: req.unitId, role: req.role });
     expect(await world.db.db.select().from(auditEvents).where(and(eq(auditEvents.entityId, req.id), eq(auditEvents.action, "requirement.updated")))).toHaveLength(1);
   });
 });

@@ -2,6 +2,7 @@
  * Requirements (what each unit or role must hold) and the regulatory references they cite.
  * References are editable text with a "last verified" date, kept in Admin: accreditation standards
  * are renumbered from time to time, so none is hard-coded (PRODUCT.md "Regulatory reference").
+ * Creating, changing, retiring and bringing back a requirement: requirements-write.server.ts.
  */
 import { and, asc, eq } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
@@ -19,12 +20,15 @@ export type RequirementView = {
   recurrence: string | null;
   graceDays: number;
   unit: string | null;
+  unitId: string | null;
   role: string | null;
+  active: boolean;
   lapseLeaves: "supervised" | "not-cleared";
   reference: { id: string; code: string; title: string; lastVerifiedOn: string | null } | null;
 };
 
-export async function listRequirements(orgId: string): Promise<RequirementView[]> {
+/** The organisation's requirements by name: the active ones, or with `includeRetired` the retired ones too. */
+export async function listRequirements(orgId: string, { includeRetired = false }: { includeRetired?: boolean } = {}): Promise<RequirementView[]> {
   const { db } = await database();
   const ref = alias(regulatoryReferences, "ref");
   const rows = await db
@@ -41,7 +45,9 @@ export async function listRequirements(orgId: string): Promise<RequirementView[]
       recurrence: requirements.recurrence,
       graceDays: requirements.graceDays,
       unit: units.name,
+      unitId: requirements.unitId,
       role: requirements.role,
+      active: requirements.active,
       lapseLeaves: requirements.lapseLeaves,
       refId: ref.id,
       refCode: ref.code,
@@ -54,7 +60,7 @@ export async function listRequirements(orgId: string): Promise<RequirementView[]
     .leftJoin(credentialTypes, and(eq(credentialTypes.id, requirements.credentialTypeId), eq(credentialTypes.orgId, orgId)))
     .leftJoin(units, and(eq(units.id, requirements.unitId), eq(units.orgId, orgId)))
     .leftJoin(ref, and(eq(ref.id, requirements.regulatoryReferenceId), eq(ref.orgId, orgId)))
-    .where(and(eq(requirements.orgId, orgId), eq(requirements.active, true)))
+    .where(and(eq(requirements.orgId, orgId), includeRetired ? undefined : eq(requirements.active, true)))
     .orderBy(asc(requirements.name));
   return rows.map((r) => ({
     id: r.id,
@@ -65,7 +71,9 @@ export async function listRequirements(orgId: string): Promise<RequirementView[]
     recurrence: r.recurrence,
     graceDays: r.graceDays,
     unit: r.unit,
+    unitId: r.unitId,
     role: r.role,
+    active: r.active,
     lapseLeaves: r.lapseLeaves,
     reference: r.refId && r.refCode ? { id: r.refId, code: r.refCode, title: r.refTitle ?? "", lastVerifiedOn: r.refVerified } : null,
   }));
@@ -97,25 +105,25 @@ export async function updateReference(orgId: string, actorId: string, referenceI
   return true;
 }
 
-export type RequirementEdit = { graceDays: number; regulatoryReferenceId: string | null; lapseLeaves: "supervised" | "not-cleared" };
+export type RequirementChoices = {
+  exams: { id: string; title: string }[];
+  checklists: { id: string; title: string }[];
+  credentialTypes: { id: string; name: string }[];
+  units: { id: string; name: string; active: boolean }[];
+};
 
 /**
- * An educator or manager changes a requirement's grace period, cited reference and what a lapse
- * leaves on the Clearance board; audited with what changed. The reference must be the organisation's.
+ * What a new requirement can ask for and whom it can be aimed at: the organisation's own
+ * published exams and check-offs, its credential types and its units (inactive ones too, so a
+ * requirement that still names one shows it; the form offers only active ones for a change).
  */
-export async function updateRequirement(orgId: string, actorId: string, requirementId: string, edit: RequirementEdit, now: Date = new Date()): Promise<"saved" | "not-found" | "bad-reference"> {
-  const { db, write } = await database();
-  const [before] = await db.select().from(requirements).where(and(eq(requirements.orgId, orgId), eq(requirements.id, requirementId)));
-  if (!before) return "not-found";
-  if (edit.regulatoryReferenceId) {
-    const [ref] = await db.select({ id: regulatoryReferences.id }).from(regulatoryReferences).where(and(eq(regulatoryReferences.orgId, orgId), eq(regulatoryReferences.id, edit.regulatoryReferenceId)));
-    if (!ref) return "bad-reference";
-  }
-  await write(async (tx) => {
-    await tx.update(requirements).set({ ...edit, updatedAt: now }).where(and(eq(requirements.orgId, orgId), eq(requirements.id, requirementId)));
-    const changed: Record<string, { from: unknown; to: unknown }> = {};
-    for (const k of ["graceDays", "regulatoryReferenceId", "lapseLeaves"] as const) if (before[k] !== edit[k]) changed[k] = { from: before[k], to: edit[k] };
-    await recordAudit(tx, { orgId, actorId, action: "requirement.updated", entityType: "requirement", entityId: requirementId, detail: { name: before.name, changed } }, now);
-  });
-  return "saved";
+export async function listRequirementChoices(orgId: string): Promise<RequirementChoices> {
+  const { db } = await database();
+  const [examRows, checklistRows, typeRows, unitRows] = await Promise.all([
+    db.select({ id: exams.id, title: exams.title }).from(exams).where(and(eq(exams.orgId, orgId), eq(exams.status, "published"))).orderBy(asc(exams.title)),
+    db.select({ id: checklists.id, title: checklists.title }).from(checklists).where(and(eq(checklists.orgId, orgId), eq(checklists.status, "published"))).orderBy(asc(checklists.title)),
+    db.select({ id: credentialTypes.id, name: credentialTypes.name }).from(credentialTypes).where(eq(credentialTypes.orgId, orgId)).orderBy(asc(credentialTypes.name)),
+    db.select({ id: units.id, name: units.name, active: units.active }).from(units).where(eq(units.orgId, orgId)).orderBy(asc(units.name)),
+  ]);
+  return { exams: examRows, checklists: checklistRows, credentialTypes: typeRows, units: unitRows };
 }

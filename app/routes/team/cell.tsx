@@ -32,16 +32,23 @@ async function loadCell(viewer: ReturnType<typeof requireViewer>, personId: stri
   const [person, rows] = await Promise.all([personOf(viewer.org.id, personId), getPlan(viewer.org.id, personId, viewer.org.timeZone, options)]);
   const row = rows?.find((r) => r.key === `requirement:${requirementId}`);
   if (!person || !row) notFound("That requirement does not apply to this person.", true);
-  return { person, row, today: options.today };
+  return { person, row, today: options.today, currentDue: currentDueOf(row) };
+}
+
+/** The last day the cell is on time now: its due date (extension included) or valid-through date, or the extension when later. */
+function currentDueOf(row: { result: { date: string | null }; extendedTo: string | null }): string | null {
+  const dates = [row.result.date, row.extendedTo].filter((d): d is string => d !== null).sort();
+  return dates.at(-1) ?? null;
 }
 
 export async function loader({ request, params, context }: Route.LoaderArgs) {
   const viewer = requireViewer(context, "team:read");
-  const { person, row, today } = await loadCell(viewer, params.personId, params.requirementId);
+  const { person, row, today, currentDue } = await loadCell(viewer, params.personId, params.requirementId);
   return {
     person: { id: person.id, name: person.name },
     row,
     today,
+    currentDue,
     back: backTo(request),
     canManage: can(viewer.roles, "team:manage"),
     canVerify: can(viewer.roles, "credentials:verify") && person.id !== viewer.person.id,
@@ -50,12 +57,12 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
 
 export async function action({ request, params, context }: Route.ActionArgs) {
   const viewer = requireViewer(context, "team:manage");
-  const { person } = await loadCell(viewer, params.personId, params.requirementId);
+  const { person, today, currentDue } = await loadCell(viewer, params.personId, params.requirementId);
   const formData = await request.formData();
   const intent = formData.get("intent");
   const back = backTo(request);
   if (intent === CELL_INTENTS.waive) {
-    const submission = parseWithZod(formData, { schema: waiverSchema });
+    const submission = parseWithZod(formData, { schema: waiverSchema(today) });
     if (submission.status !== "success") return data(submission.reply(), { status: 400 });
     await grantWaiver(viewer.org.id, viewer.person.id, { personId: person.id, requirementId: params.requirementId, reason: submission.value.reason, endsOn: submission.value.endsOn });
     return redirectWithToast(back, `Waiver granted to ${person.name} through ${formatCalendarDate(submission.value.endsOn)}.`);
@@ -69,7 +76,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     return redirectWithToast(`${self.pathname}${self.search}`, `Waiver revoked for ${person.name}. The reason is recorded.`);
   }
   if (intent === CELL_INTENTS.extend) {
-    const submission = parseWithZod(formData, { schema: extensionSchema });
+    const submission = parseWithZod(formData, { schema: extensionSchema(today, currentDue) });
     if (submission.status !== "success") return data(submission.reply(), { status: 400 });
     await grantExtension(viewer.org.id, viewer.person.id, { personId: person.id, requirementId: params.requirementId, reason: submission.value.reason, newDueOn: submission.value.newDueOn });
     return redirectWithToast(back, `Due date for ${person.name} extended to ${formatCalendarDate(submission.value.newDueOn)}.`);
@@ -86,7 +93,7 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 }
 
 export default function Cell() {
-  const { person, row, back, canManage, canVerify, today } = useLoaderData<typeof loader>();
+  const { person, row, back, canManage, canVerify, today, currentDue } = useLoaderData<typeof loader>();
   const credential = row.evidence?.find((e): e is Extract<Evidence, { kind: "credential" }> => e.kind === "credential");
   return (
     <>
@@ -133,7 +140,7 @@ export default function Cell() {
       {canManage ? (
         <div className="mt-8 grid max-w-4xl gap-6 md:grid-cols-2">
           <WaiverForm today={today} />
-          <ExtensionForm today={today} />
+          <ExtensionForm today={today} currentDue={currentDue} />
         </div>
       ) : null}
       <CautionFooter />
@@ -215,7 +222,7 @@ function WaiverForm({ today }: { today: string }) {
   const [form, fields] = useForm({
     id: "waiver",
     lastResult: resultFor(lastResult, CELL_INTENTS.waive),
-    onValidate: ({ formData }) => parseWithZod(formData, { schema: waiverSchema }),
+    onValidate: ({ formData }) => parseWithZod(formData, { schema: waiverSchema(today) }),
     shouldValidate: "onSubmit",
   });
   return (
@@ -226,7 +233,7 @@ function WaiverForm({ today }: { today: string }) {
       <FormErrors id={form.errorId} errors={form.errors} />
       <input type="hidden" name="intent" value={CELL_INTENTS.waive} />
       <TextField id={fields.reason.id} name={fields.reason.name} errors={fields.reason.errors} label="Reason" />
-      <TextField id={fields.endsOn.id} name={fields.endsOn.name} errors={fields.endsOn.errors} label="Waived through" hint={`YYYY-MM-DD; today is ${today}.`} inputMode="numeric" />
+      <TextField id={fields.endsOn.id} name={fields.endsOn.name} errors={fields.endsOn.errors} label="Waived through" hint={`YYYY-MM-DD, today or later; today is ${today}.`} inputMode="numeric" />
       <div>
         <Button type="submit">Grant waiver</Button>
       </div>
@@ -234,12 +241,12 @@ function WaiverForm({ today }: { today: string }) {
   );
 }
 
-function ExtensionForm({ today }: { today: string }) {
+function ExtensionForm({ today, currentDue }: { today: string; currentDue: string | null }) {
   const lastResult = useActionData<typeof action>();
   const [form, fields] = useForm({
     id: "extension",
     lastResult: resultFor(lastResult, CELL_INTENTS.extend),
-    onValidate: ({ formData }) => parseWithZod(formData, { schema: extensionSchema }),
+    onValidate: ({ formData }) => parseWithZod(formData, { schema: extensionSchema(today, currentDue) }),
     shouldValidate: "onSubmit",
   });
   return (
@@ -250,7 +257,8 @@ function ExtensionForm({ today }: { today: string }) {
       <FormErrors id={form.errorId} errors={form.errors} />
       <input type="hidden" name="intent" value={CELL_INTENTS.extend} />
       <TextField id={fields.reason.id} name={fields.reason.name} errors={fields.reason.errors} label="Reason" />
-      <TextField id={fields.newDueOn.id} name={fields.newDueOn.name} errors={fields.newDueOn.errors} label="New due date" hint={`YYYY-MM-DD; today is ${today}.`} inputMode="numeric" />
+      <TextField id={fields.newDueOn.id} name={fields.newDueOn.name} errors={fields.newDueOn.errors} label="New due date"
+        hint={currentDue ? `YYYY-MM-DD, after the current ${currentDue}; today is ${today}.` : `YYYY-MM-DD; today is ${today}.`} inputMode="numeric" />
       <div>
         <Button type="submit" variant="secondary">
           Extend
