@@ -21,6 +21,13 @@ export default [
   layout("routes/shell.tsx", [
     route("today", "routes/today/index.tsx"),
     layout("routes/plan/layout.tsx", [route("plan", "routes/plan/index.tsx")]),
+    layout("routes/exams/layout.tsx", [
+      route("exams", "routes/exams/index.tsx"),
+      route("exams/:examId/start", "routes/exams/start.tsx"),
+      route("exams/attempts/:attemptId", "routes/exams/attempt.tsx"),
+      route("exams/attempts/:attemptId/answers", "routes/exams/answers.ts"),
+      route("exams/attempts/:attemptId/result", "routes/exams/result.tsx"),
+    ]),
     layout("routes/bench/layout.tsx", [route("bench", "routes/bench/index.tsx")]),
     layout("routes/team/layout.tsx", [
       route("team", "routes/team/index.tsx"),
@@ -28,6 +35,7 @@ export default [
       route("team/matrix", "routes/team/matrix.tsx"),
       route("team/matrix/export", "routes/team/matrix-export.ts"),
       route("team/people/:personId/requirements/:requirementId", "routes/team/cell.tsx"),
+      route("team/accommodations", "routes/team/accommodations.tsx"),
     ]),
     layout("routes/credentials/layout.tsx", [
       route("credentials", "routes/credentials/index.tsx"),
@@ -49,6 +57,10 @@ export default [
       route("bank/items/:itemId/versions/:version", "routes/bank/item-version.tsx"),
       route("bank/import", "routes/bank/import.tsx"),
       route("bank/export", "routes/bank/export.ts"),
+      route("bank/exams", "routes/bank/exams.tsx"),
+      route("bank/exams/new", "routes/bank/exam-new.tsx"),
+      route("bank/exams/:examId", "routes/bank/exam.tsx"),
+      route("bank/exams/:examId/edit", "routes/bank/exam-edit.tsx"),
     ]),
     ...prefix("admin", [
       layout("routes/admin/layout.tsx", [

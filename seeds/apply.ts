@@ -15,6 +15,7 @@ import type { Dataset } from "./dataset";
  * Tables without an org_id column are handled by the joins in `resetOrganisation`.
  */
 const OWNED_IN_DELETE_ORDER = [
+  schema.domainEvents,
   schema.responses,
   schema.attempts,
   schema.accommodations,

@@ -35,8 +35,10 @@ export const PERMISSIONS = [
   "assignments:write",
   /** See people of their units. */
   "team:read",
-  /** Waivers, extensions, verifying credentials, accommodations. */
+  /** Waivers, extensions, verifying credentials. */
   "team:manage",
+  /** Extra time or an untimed exam sitting (WCAG 2.2.1), with a reason. */
+  "exams:accommodate",
   "credentials:verify",
   "reports:read",
   "org:settings",
@@ -71,6 +73,7 @@ export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
     "assignments:write",
     "team:read",
     "reports:read",
+    "exams:accommodate",
   ],
   manager: [
     ...STAFF,
@@ -81,6 +84,7 @@ export const ROLE_PERMISSIONS: Record<Role, readonly Permission[]> = {
     "team:manage",
     "credentials:verify",
     "reports:read",
+    "exams:accommodate",
   ],
   admin: ["section:today", "section:bench", "section:admin", "org:settings", "people:manage", "roles:grant", "api-tokens:manage"],
 };
@@ -113,7 +117,7 @@ export type Section = { id: SectionId; label: string; path: `/${string}`; permis
 export const SECTIONS: readonly Section[] = [
   { id: "today", label: "Today", path: "/today", permission: "section:today", built: true },
   { id: "plan", label: "My plan", path: "/plan", permission: "section:plan", built: true },
-  { id: "exams", label: "Exams", path: "/exams", permission: "section:exams", built: false },
+  { id: "exams", label: "Exams", path: "/exams", permission: "section:exams", built: true },
   { id: "bench", label: "Bench", path: "/bench", permission: "section:bench", built: true },
   { id: "checkoffs", label: "Check-offs", path: "/checkoffs", permission: "section:checkoffs", built: true },
   { id: "credentials", label: "Credentials", path: "/credentials", permission: "section:credentials", built: true },

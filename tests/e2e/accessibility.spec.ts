@@ -7,6 +7,7 @@
 import type { Page } from "@playwright/test";
 import { expectNoAxeViolations } from "../fixtures/axe";
 import { firstPersonId } from "../fixtures/e2e-db";
+import { seededExamId } from "../fixtures/exams";
 import type { DemoKey } from "../fixtures/e2e-env";
 import { readLatestCode } from "../fixtures/outbox";
 import { askForCode, spareAddress, statusNote, typeCode, wrongCodeFor } from "../fixtures/sign-in-flow";
@@ -45,6 +46,14 @@ const SCANS: Scan[] = [
   { name: "Bench (therapist)", who: "therapist", path: () => "/bench" },
   { name: "Team (manager)", who: "manager", path: () => "/team" },
   { name: "Team (educator)", who: "educator", path: () => "/team" },
+  { name: "Team: exam time accommodations (manager)", who: "manager", path: () => "/team/accommodations" },
+  { name: "Team: exam time accommodations (educator)", who: "educator", path: () => "/team/accommodations" },
+  { name: "Exams (therapist)", who: "therapist", path: () => "/exams" },
+  { name: "Exam start page (therapist)", who: "therapist", path: async () => `/exams/${await seededExamId("kestrel-valley")}/start` },
+  { name: "Bank: exams (educator)", who: "educator", path: () => "/bank/exams" },
+  { name: "Bank: write an exam (educator)", who: "educator", path: () => "/bank/exams/new" },
+  { name: "Bank: an exam (educator)", who: "educator", path: async () => `/bank/exams/${await seededExamId("kestrel-valley")}` },
+  { name: "Bank: edit an exam (educator)", who: "educator", path: async () => `/bank/exams/${await seededExamId("kestrel-valley")}/edit` },
   { name: "Admin: organisation", who: "admin", path: () => "/admin" },
   { name: "Admin: units", who: "admin", path: () => "/admin/units" },
   { name: "Admin: people", who: "admin", path: () => "/admin/people" },

@@ -13,6 +13,7 @@ import { ROUTE_ACCESS, type Access } from "../../app/auth/route-access";
 import { can, isRole, type Role } from "../../app/auth/roles";
 import { seededChecklistId, seededCheckoffId, seededEvidenceId } from "../fixtures/checkoffs";
 import { seededItemId } from "../fixtures/bank";
+import { seededAttemptId, seededExamId } from "../fixtures/exams";
 import { seededCredentialId, seededRequirementId } from "../fixtures/credentials";
 import { firstPersonId, insertSession, one, rolesOf } from "../fixtures/e2e-db";
 import { APP_URL, DEMO, type DemoKey } from "../fixtures/e2e-env";
@@ -36,6 +37,8 @@ const PARAMS: Record<string, (org: Identity["org"]) => Promise<string>> = {
   version: async () => "1",
   credentialId: (org) => seededCredentialId(org),
   requirementId: (org) => seededRequirementId(org),
+  examId: (org) => seededExamId(org),
+  attemptId: (org) => seededAttemptId(org),
 };
 
 /** A catch-all segment that no route claims. */

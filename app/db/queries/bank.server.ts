@@ -47,7 +47,7 @@ export async function listAuthors(orgId: string) {
 }
 
 /** Topic slugs per version id. */
-async function topicsOf(db: DbOrTx, versionIds: string[]): Promise<Map<string, string[]>> {
+export async function topicsOf(db: DbOrTx, versionIds: string[]): Promise<Map<string, string[]>> {
   const out = new Map<string, string[]>();
   if (versionIds.length === 0) return out;
   const rows = await db

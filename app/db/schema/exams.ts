@@ -40,6 +40,7 @@ export const examVersions = sqliteTable(
     multipleResponseScoring: text("multiple_response_scoring", { enum: ["all-or-nothing", "partial"] })
       .notNull()
       .default("all-or-nothing"),
+    orderingScoring: text("ordering_scoring", { enum: ["exact", "partial"] }).notNull().default("exact"),
     availableFrom: calendarDate("available_from"),
     availableUntil: calendarDate("available_until"),
     publishedAt: instant("published_at"),
@@ -81,18 +82,35 @@ export const attempts = sqliteTable(
     assignmentId: text("assignment_id").references(() => assignments.id),
     /** Seed for the drawn form, shuffles and scenario items: replays exactly. */
     seed: integer("seed").notNull(),
+    /** 1 for a person's first sitting of this exam (any version), 2 for the second… */
+    attemptNumber: integer("attempt_number").notNull().default(1),
     /** The drawn items in order, with their item-version ids. JSON. */
     form: text("form", { mode: "json" }).notNull(),
     startedAt: instant("started_at").notNull(),
     /** Server-held deadline; null for an untimed sitting. */
     deadlineAt: instant("deadline_at"),
+    /** The time this sitting was given, after any accommodation (null = untimed), and why. */
+    allowedSeconds: integer("allowed_seconds"),
+    accommodationId: text("accommodation_id"),
+    /** The therapist's choice: one item at a time or all on one page. */
+    layout: text("layout", { enum: ["one", "all"] }).notNull().default("one"),
+    /** Where the therapist was (item position), so a resumed attempt opens there. */
+    lastPosition: integer("last_position").notNull().default(0),
     submittedAt: instant("submitted_at"),
     closedReason: text("closed_reason", { enum: ["submitted", "deadline"] }),
+    rawScore: real("raw_score"),
+    maxScore: real("max_score"),
     scorePercent: real("score_percent"),
     passed: integer("passed", { mode: "boolean" }),
+    /** Per-topic subscores at grading. JSON. */
+    subscores: text("subscores", { mode: "json" }),
     createdAt: createdAt(),
   },
-  (t) => [index("attempts_person").on(t.personId), index("attempts_exam_version").on(t.examVersionId)],
+  (t) => [
+    index("attempts_person").on(t.personId),
+    index("attempts_exam_version").on(t.examVersionId),
+    index("attempts_open_deadline").on(t.submittedAt, t.deadlineAt),
+  ],
 );
 
 export const responses = sqliteTable(
@@ -121,9 +139,32 @@ export const accommodations = sqliteTable("accommodations", {
   reason: text("reason").notNull(),
   endsOn: calendarDate("ends_on"),
   grantedBy: text("granted_by").references(() => people.id),
+  revokedAt: instant("revoked_at"),
+  revokedBy: text("revoked_by").references(() => people.id),
   createdAt: createdAt(),
 });
+
+/**
+ * Things that happened which other work acts on later, e.g. "attempt.passed" → a certificate.
+ * A consumer marks a row processed in the same transaction as the work it did.
+ */
+export const domainEvents = sqliteTable(
+  "domain_events",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    kind: text("kind", { enum: ["attempt.passed", "checkoff.signed"] }).notNull(),
+    subjectId: text("subject_id").notNull(),
+    personId: text("person_id").references(() => people.id),
+    payload: text("payload", { mode: "json" }),
+    processedAt: instant("processed_at"),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("domain_events_once").on(t.kind, t.subjectId), index("domain_events_pending").on(t.processedAt)],
+);
 
 export type Exam = typeof exams.$inferSelect;
 export type Assignment = typeof assignments.$inferSelect;
 export type Attempt = typeof attempts.$inferSelect;
+export type ExamVersion = typeof examVersions.$inferSelect;
+export type Accommodation = typeof accommodations.$inferSelect;

@@ -157,4 +157,38 @@ describe("a therapist's plan on 2026-12-02", () => {
     expect(acls).toMatchObject({ result: { status: "due-soon", date: "2026-11-30" }, nextChangeOn: "2026-12-31", nextStatus: "lapsed", nextStep: "upload-renewed-card" });
     expect(acls.evidence?.[0]).toMatchObject({ kind: "credential", validThrough: "2026-11-30" });
   });
+
+  // Issue 5: an exam assigned by an educator shows in My plan and on Today with its due date,
+  // whether or not it names a requirement.
+  it("an exam assigned without a requirement, for an exam no requirement asks for, is its own row with its due date", () => {
+    const plan2 = buildPlan(
+      { ...input, assignments: [...input.assignments, { id: "a-adhoc", kind: "exam", refId: "exam-2", requirementId: null, title: "Alarm reasoning exam", dueOn: "2027-01-10" }] },
+      { today },
+    );
+    expect(plan2.find((r) => r.key === "assignment:a-adhoc")).toMatchObject({ kind: "exam", title: "Alarm reasoning exam", dateMeaning: "due", result: { status: "not-started", date: "2027-01-10" }, nextStep: "take-exam" });
+  });
+
+  it("an exam assigned without a requirement keeps its own row while the requirement for that exam is met", () => {
+    const met = buildPlan(
+      {
+        ...input,
+        assignments: [...input.assignments.filter((a) => a.id !== "a-exam"), { id: "a-again", kind: "exam", refId: "exam-1", requirementId: null, title: "Annual exam", dueOn: "2027-01-20" }],
+        completions: [{ kind: "exam", refId: "exam-1", completedOn: "2026-06-15" }],
+      },
+      { today },
+    );
+    // The requirement shows the record (valid through 2027-06-15: 12 months on) …
+    expect(met.find((r) => r.key === "requirement:r-exam")).toMatchObject({ dateMeaning: "valid-through", result: { date: "2027-06-15" } });
+    // … and the new work is not swallowed by it: it keeps its due date (Today lists rows with dateMeaning "due").
+    expect(met.find((r) => r.key === "assignment:a-again")).toMatchObject({ dateMeaning: "due", result: { status: "not-started", date: "2027-01-20" } });
+  });
+
+  it("an exam assigned without a requirement answers that exam's requirement while it is not met", () => {
+    const owed = buildPlan(
+      { ...input, assignments: [...input.assignments.filter((a) => a.id !== "a-exam"), { id: "a-unlinked", kind: "exam", refId: "exam-1", requirementId: null, title: "Annual exam", dueOn: "2027-01-20" }] },
+      { today },
+    );
+    expect(owed.find((r) => r.key === "requirement:r-exam")).toMatchObject({ dateMeaning: "due", result: { status: "not-started", date: "2027-01-20" } });
+    expect(owed.some((r) => r.key === "assignment:a-unlinked")).toBe(false);
+  });
 });

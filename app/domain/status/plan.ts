@@ -225,6 +225,9 @@ export function buildPlan(input: PlanInput, options: StatusOptions): PlanRow[] {
       // A lapsed completion with fresh work assigned shows the new due date; otherwise the record.
       if (heldInput && (assessOn(heldInput, today, options.reminderDays).status !== "lapsed" || open.length === 0)) {
         assessInput = heldInput;
+        // The row shows the record, not a due date: work assigned without naming this requirement
+        // (an educator's ad-hoc exam assignment) would vanish from the plan and Today, so it keeps its own row.
+        for (const a of open) if (a.requirementId === null) usedAssignments.delete(a.id);
       } else {
         const first = open[0];
         assessInput = { ...base, held: null, dueOn: first?.dueOn ?? null, dueEvidence: first ? { kind: "assignment", id: first.id, dueOn: first.dueOn } : null };

@@ -10,6 +10,7 @@ const TABS: SectionTab[] = [
   { to: "/bank", label: "Items", end: true },
   { to: "/bank/items/new", label: "Write an item", end: false },
   { to: "/bank/import", label: "Import", end: false },
+  { to: "/bank/exams", label: "Exams", end: false },
 ];
 
 export default function BankLayout() {

@@ -19,8 +19,8 @@ const STEP_TEXT: Record<Exclude<NextStep, "none">, string> = {
 function stepHref(row: PlanRow): string | null {
   switch (row.nextStep) {
     case "take-exam":
-      // The Exams section is not live yet (issue 5): say what to do, without a link to nowhere.
-      return null;
+      // The Exams page lists the exam with Start or Resume and the attempts left.
+      return "/exams";
     case "ask-for-checkoff":
       return "/checkoffs";
     case "upload-card":

@@ -1,0 +1,3 @@
+export * from "./blueprint";
+export * from "./draw";
+export * from "./timing";
