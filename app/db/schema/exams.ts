@@ -82,7 +82,7 @@ export const attempts = sqliteTable(
     assignmentId: text("assignment_id").references(() => assignments.id),
     /** Seed for the drawn form, shuffles and scenario items: replays exactly. */
     seed: integer("seed").notNull(),
-    /** 1 for a person's first sitting of this exam (any version), 2 for the second… */
+    /** 1 for the first sitting of this exam in the person's current cycle (since the exam was last assigned to them), 2 for the second… */
     attemptNumber: integer("attempt_number").notNull().default(1),
     /** The drawn items in order, with their item-version ids. JSON. */
     form: text("form", { mode: "json" }).notNull(),

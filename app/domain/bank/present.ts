@@ -78,7 +78,9 @@ export function presentItem(content: ItemContent, seed: number): { presented: Pr
     const q = generated.question;
     if (q.kind === "numeric") {
       const answer = generated.answer as number;
-      const decimals = Math.max(0, (String(answer).split(".")[1] ?? "").length);
+      // The precision asked for follows the template's tolerance, never the drawn answer (which
+      // would tell a therapist whether this seed's answer happens to be a whole number).
+      const decimals = q.tolerance > 0 && q.tolerance < 1 ? Math.min(3, (String(q.tolerance).split(".")[1] ?? "").length) : 0;
       return {
         presented: { kind: "numeric", stem, unit: q.unit, decimals },
         key: { kind: "numeric", answer, tolerance: q.tolerance, unit: q.unit, text: `${answer} ${q.unit} (± ${q.tolerance})` },

@@ -8,7 +8,8 @@ import { can } from "~/auth/roles";
 import { formatInstantDate } from "~/components/calendar-date";
 import { buttonClass } from "~/components/ui/button";
 import { WaveformPlot } from "~/components/waveform";
-import { resultView, type ResultItem } from "~/db/queries/exam-attempts.server";
+import { database } from "~/db/client.server";
+import { ownAttempt, resultView, type ResultItem } from "~/db/queries/exam-attempts.server";
 import { formatDuration } from "~/domain/exams";
 import { formatPercent } from "./index";
 import type { Route } from "./+types/result";
@@ -18,12 +19,32 @@ export async function loader({ params, context }: Route.LoaderArgs) {
   const asEducator = can(viewer.roles, "bank:write");
   const view = await resultView(viewer.org.id, params.attemptId, { personId: viewer.person.id, asEducator });
   if (view === null) notFound("We could not find that result.", true);
-  if (view === "open") throw redirect(`/exams/attempts/${params.attemptId}`);
+  if (view === "open") {
+    // The therapist goes back to their exam; an educator is told it is still being taken.
+    const { db } = await database();
+    if (await ownAttempt(db, { orgId: viewer.org.id, personId: viewer.person.id }, params.attemptId)) throw redirect(`/exams/attempts/${params.attemptId}`);
+    return { view: null, own: false, timeZone: viewer.org.timeZone };
+  }
   return { view, own: view.attempt.personId === viewer.person.id, timeZone: viewer.org.timeZone };
 }
 
 export default function Result() {
   const { view, own, timeZone } = useLoaderData<typeof loader>();
+  if (!view) {
+    return (
+      <section aria-labelledby="result-heading" className="flex max-w-4xl flex-col gap-4">
+        <h1 id="result-heading" className="text-3xl font-semibold">
+          Still being taken
+        </h1>
+        <p>This attempt is open. Its result appears here when it is handed in or when its time runs out.</p>
+        <div>
+          <Link to="/bank/exams" className={buttonClass("secondary")}>
+            Back to the exams
+          </Link>
+        </div>
+      </section>
+    );
+  }
   const { exam, score, attempt } = view;
   return (
     <section aria-labelledby="result-heading" className="flex max-w-4xl flex-col gap-4">
@@ -146,4 +167,4 @@ function topicLabel(slug: string): string {
   return s.charAt(0).toUpperCase() + s.slice(1);
 }
 
-export const meta: Route.MetaFunction = ({ data }) => [{ title: `Result · ${data?.view.exam.title ?? "Exam"} · Tidemark` }];
+export const meta: Route.MetaFunction = ({ data }) => [{ title: `Result · ${data?.view?.exam.title ?? "Exam"} · Tidemark` }];
