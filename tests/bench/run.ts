@@ -6,7 +6,10 @@
  *      says why not build/) and the JavaScript the Bench route adds, gzipped (target under 60 KB);
  *   3. HTTP: the large organisation (--people 2000) in its own database file, the production
  *      server on loopback, autocannon on the sign-in page, Today and Team as the manager, and
- *      /healthz, compared with STACK.md's reference ceilings for context.
+ *      /healthz, compared with STACK.md's reference ceilings for context;
+ *   4. the exam autosave under a realistic load (issue 5 item 7, tests/bench/autosave.ts): 300
+ *      therapists of the same database each saving an answer every 5 s for 2 minutes against a
+ *      fresh server of the same build; save p50/p95/p99, answers acknowledged, found, lost.
  *
  * Everything goes to bench-results.json (git-ignored) with the machine and the settings, and
  * the change against the previous file is printed. Targets are reported, never asserted:
@@ -15,6 +18,9 @@
  *
  * Options: --people N (2000) --duration S (10) --warmup S (3) --connections N (20)
  *          --port N (3200; another free port when taken) --runs N (50, simulator)
+ *          --autosave-examinees N (300) --autosave-seconds S (120) --autosave-interval S (5), or
+ *          the same as AUTOSAVE_EXAMINEES / AUTOSAVE_SECONDS / AUTOSAVE_INTERVAL (a scaled run,
+ *          e.g. AUTOSAVE_SECONDS=30, is reported as "scaled")
  */
 import { execSync } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
@@ -28,6 +34,8 @@ import { measureRoute, stopLoad, type HttpFigure, type LoadSettings, type RouteT
 import { compareWithPrevious, formatBundle, formatHttp, formatSim, type BenchResults } from "./report";
 import { choosePort, httpGet, startBenchServer, type BenchServer } from "./server";
 import { prepareBenchDatabase, sessionCookieHeader } from "./session";
+import { autosaveSettings, formatAutosave, measureAutosave, stopAutosave, type AutosaveSettings } from "./autosave";
+import { formatScoring, timeScoring } from "./scoring";
 import { timeModes } from "./sim";
 import { formatTeamMatrix, timeBareMatrixSql, widenRequirements, withRequest, type TeamMatrixFigure } from "./team-matrix";
 
@@ -46,6 +54,9 @@ const { values: flags } = parseArgs({
     connections: { type: "string", default: "20" },
     port: { type: "string", default: "3200" },
     runs: { type: "string", default: "50" },
+    "autosave-examinees": { type: "string" },
+    "autosave-seconds": { type: "string" },
+    "autosave-interval": { type: "string" },
   },
 });
 const positive = (name: string, raw: string | undefined) => {
@@ -59,9 +70,18 @@ const positive = (name: string, raw: string | undefined) => {
 const load: LoadSettings = { connections: positive("connections", flags.connections), durationS: positive("duration", flags.duration), warmupS: positive("warmup", flags.warmup), timeoutS: 10 };
 const peopleCount = positive("people", flags.people);
 const simRuns = Math.max(1, positive("runs", flags.runs));
+let autosave: AutosaveSettings;
+try {
+  autosave = autosaveSettings({ examinees: flags["autosave-examinees"], seconds: flags["autosave-seconds"], interval: flags["autosave-interval"] });
+} catch (error) {
+  console.error(error instanceof Error ? error.message : String(error));
+  process.exit(2);
+}
 
 let server: BenchServer | undefined;
 let build: BenchBuild | undefined;
+/** The seeded bench database, once the HTTP section has built it (the autosave load reuses it). */
+let benchDatabaseUrl: string | undefined;
 let interrupted = false;
 // `on`, not `once`: Ctrl-C reaches npm, tsx and this process, and tsx relays it once more;
 // a second SIGINT without a handler would end the process before the server is stopped.
@@ -70,6 +90,7 @@ process.on("SIGINT", () => {
   interrupted = true;
   console.error("\nInterrupted: stopping the load and the bench server.");
   stopLoad();
+  stopAutosave();
   void (server?.stop() ?? Promise.resolve()).finally(() => {
     build?.remove();
     process.exit(130);
@@ -110,6 +131,7 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
   const db = await prepareBenchDatabase({ dbFile: path.join(BENCH_DIR, "tidemark.db"), people: peopleCount, today });
   console.log(`  seeded in ${(db.seedMs / 1000).toFixed(1)} s; session for ${db.manager.email} (${db.manager.name}).`);
   Object.assign(settings, { people: peopleCount, seedToday: today, seedS: Math.round(db.seedMs / 100) / 10 });
+  benchDatabaseUrl = db.databaseUrl;
 
   // Team matrix (issue 8): 40 requirements, and the bare SQL behind the matrix timed before the server starts.
   let matrixFigure: TeamMatrixFigure | undefined;
@@ -217,6 +239,15 @@ async function main(): Promise<void> {
     errors.push(`Simulator: ${message(error)}`);
   }
 
+  section("Scoring: grading one 50-item attempt");
+  try {
+    const scoring = timeScoring({ runs: 2000, warmupRuns: 200 });
+    settings.scoring = scoring;
+    console.log(formatScoring(scoring));
+  } catch (error) {
+    errors.push(`Scoring: ${message(error)}`);
+  }
+
   section("Production build (fresh, of the working tree, in a temporary folder)");
   try {
     build = await buildPrivateCopy(PROJECT_ROOT);
@@ -243,11 +274,36 @@ async function main(): Promise<void> {
     } finally {
       await server?.stop();
       if (server) console.log(`Server PID ${server.pid} stopped.`);
-      build.remove();
+      server = undefined;
     }
     if (results.http.length > 0) {
       console.log(formatHttp(results.http));
       console.log("p50/p95/p99 from every response time (nearest rank); no compression requested (autocannon sends no Accept-Encoding).");
+    }
+
+    section(`Exam autosave under load (${autosave.examinees} examinees, ${autosave.seconds} s, ${autosave.mode})`);
+    try {
+      if (interrupted) throw new Error("interrupted");
+      if (!benchDatabaseUrl) throw new Error("the bench database was not seeded (see the HTTP error above).");
+      const databaseUrl = benchDatabaseUrl;
+      const figure = await measureAutosave({
+        projectRoot: PROJECT_ROOT,
+        serverEntry: build.serverEntry,
+        databaseUrl,
+        port: await choosePort(positive("port", flags.port) + 1),
+        logFile: path.join(BENCH_DIR, "server-autosave.log"),
+        env: { NODE_ENV: "production", DATABASE_URL: databaseUrl, DATA_DIR: path.relative(PROJECT_ROOT, BENCH_DIR), SESSION_SECRET, TOTP_SECRET },
+        sessionSecret: SESSION_SECRET,
+        settings: autosave,
+        onServer: (s) => (server = s),
+      });
+      settings.autosave = figure;
+      console.log(formatAutosave(figure));
+    } catch (error) {
+      errors.push(`Autosave: ${message(error)}`);
+      console.error(`  ${message(error)}`);
+    } finally {
+      build.remove();
     }
   }
 

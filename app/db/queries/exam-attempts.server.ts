@@ -269,35 +269,44 @@ export async function saveAnswer(
   change: { answer?: SubmittedAnswer | null; flagged?: boolean },
   now = new Date(),
 ): Promise<SaveResult> {
-  const { write } = await database();
-  const result = await write(async (tx): Promise<SaveResult | "late"> => {
-    const attempt = await ownAttempt(tx, who, attemptId);
-    if (!attempt) return { ok: false, status: 404, message: "We could not find that attempt." };
-    if (attempt.submittedAt) return { ok: false, status: 409, closed: true, message: "This attempt is closed; answers can no longer change." };
-    if (!acceptsAnswerAt(attempt.deadlineAt, now)) return "late";
-    const entry = (attempt.form as StoredFormEntry[]).find((f) => f.position === position);
-    if (!entry) return { ok: false, status: 422, message: "There is no such question in this attempt." };
-    const set: Partial<typeof responses.$inferInsert> = { savedAt: now };
-    if (change.answer !== undefined) {
-      if (change.answer === null) set.answer = null;
-      else {
-        const checked = checkAnswer(entry.shape, change.answer);
-        if (!checked.ok) return { ok: false, status: 422, message: checked.message };
-        set.answer = checked.stored;
-      }
+  // Everything that can be checked without writing is checked on a pooled read, so the writer
+  // queue holds only one guarded UPDATE per save (the exam load is many small writes at once).
+  const { db, write } = await database();
+  const attempt = await ownAttempt(db, who, attemptId);
+  if (!attempt) return { ok: false, status: 404, message: "We could not find that attempt." };
+  if (attempt.submittedAt) return { ok: false, status: 409, closed: true, message: "This attempt is closed; answers can no longer change." };
+  if (!acceptsAnswerAt(attempt.deadlineAt, now)) {
+    await finishAttempt(who.orgId, attemptId, "deadline", now);
+    return { ok: false, status: 409, closed: true, message: lateMessage(attempt.deadlineAt!, who.timeZone) };
+  }
+  const entry = (attempt.form as StoredFormEntry[]).find((f) => f.position === position);
+  if (!entry) return { ok: false, status: 422, message: "There is no such question in this attempt." };
+  const set: Partial<typeof responses.$inferInsert> = { savedAt: now };
+  if (change.answer !== undefined) {
+    if (change.answer === null) set.answer = null;
+    else {
+      const checked = checkAnswer(entry.shape, change.answer);
+      if (!checked.ok) return { ok: false, status: 422, message: checked.message };
+      set.answer = checked.stored;
     }
-    if (change.flagged !== undefined) set.flagged = change.flagged;
-    await tx
+  }
+  if (change.flagged !== undefined) set.flagged = change.flagged;
+  // The guard re-checks, inside the queue, that the attempt was not closed since the read above.
+  const saved = await write((tx) =>
+    tx
       .update(responses)
       .set(set)
-      .where(and(eq(responses.attemptId, attemptId), eq(responses.position, position)));
-    if (attempt.lastPosition !== position) await tx.update(attempts).set({ lastPosition: position }).where(eq(attempts.id, attemptId));
-    return { ok: true, position, savedAt: now.toISOString() };
-  });
-  if (result !== "late") return result;
-  await finishAttempt(who.orgId, attemptId, "deadline", now);
-  const [attempt] = await (await database()).db.select({ deadlineAt: attempts.deadlineAt }).from(attempts).where(eq(attempts.id, attemptId));
-  return { ok: false, status: 409, closed: true, message: lateMessage(attempt!.deadlineAt!, who.timeZone) };
+      .where(
+        and(
+          eq(responses.attemptId, attemptId),
+          eq(responses.position, position),
+          sql`exists (select 1 from ${attempts} where ${attempts.id} = ${attemptId} and ${attempts.submittedAt} is null)`,
+        ),
+      )
+      .returning({ position: responses.position }),
+  );
+  if (saved.length === 0) return { ok: false, status: 409, closed: true, message: "This attempt was closed a moment ago; this answer was not saved." };
+  return { ok: true, position, savedAt: now.toISOString() };
 }
 
 /** Remembers where the therapist is and how they prefer to see the exam. */
