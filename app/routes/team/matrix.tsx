@@ -3,10 +3,11 @@ import { Link, useFetcher, useLoaderData } from "react-router";
 import { requireViewer } from "~/auth/gate.server";
 import { ROLE_LABELS, ROLES } from "~/auth/roles";
 import { CautionFooter } from "~/components/caution";
-import { CalendarDate, formatCalendarDate } from "~/components/calendar-date";
+import { CalendarDate } from "~/components/calendar-date";
+import { MatrixTable } from "~/components/team/matrix-table";
 import { Button } from "~/components/ui/button";
 import { SelectField, TextField } from "~/components/ui/field";
-import { STATUS_WORDS, StatusMark } from "~/components/ui/status-mark";
+import { STATUS_WORDS } from "~/components/ui/status-mark";
 import { statusOptionsFor } from "~/db/queries/people.server";
 import {
   cellTuple,
@@ -16,12 +17,10 @@ import {
 } from "~/db/queries/team-matrix.server";
 import { STATUSES } from "~/domain/status";
 import {
-  decodeCells,
   encodeCells,
   MATRIX_PAGE_SIZE,
   matrixSearch,
   parseMatrixSearch,
-  type CellTuple,
   type MatrixSearch,
 } from "./matrix-params";
 import type { Route } from "./+types/matrix";
@@ -173,49 +172,7 @@ export default function TeamMatrix() {
               : `Showing ${(view.page - 1) * MATRIX_PAGE_SIZE + 1}–${Math.min(view.page * MATRIX_PAGE_SIZE, view.matching)} of ${view.matching.toLocaleString("en-US")} people (of ${view.inScope.toLocaleString("en-US")}).`}
         </p>
 
-        {view.rows.length > 0 ? (
-          <MatrixTable
-            view={view}
-            onSort={(sort) =>
-              go({
-                ...view.search,
-                sort,
-                dir:
-                  view.search.sort === sort && view.search.dir === "asc"
-                    ? "desc"
-                    : "asc",
-                page: 1,
-              })
-            }
-          />
-        ) : null}
-
-        {view.pageCount > 1 ? (
-          <nav
-            aria-label="Pages"
-            className="mt-4 flex flex-wrap items-center gap-4"
-          >
-            {view.page > 1 ? (
-              <Button
-                variant="quiet"
-                onClick={() => go({ ...view.search, page: view.page - 1 })}
-              >
-                Previous page
-              </Button>
-            ) : null}
-            <span>
-              Page {view.page} of {view.pageCount}
-            </span>
-            {view.page < view.pageCount ? (
-              <Button
-                variant="quiet"
-                onClick={() => go({ ...view.search, page: view.page + 1 })}
-              >
-                Next page
-              </Button>
-            ) : null}
-          </nav>
-        ) : null}
+        {view.rows.length > 0 ? <MatrixTable view={view} go={go} /> : null}
       </section>
       <CautionFooter />
     </>
@@ -302,123 +259,6 @@ function Expiries({ expiries }: { expiries: Data["expiries"] }) {
         </ul>
       ) : null}
     </section>
-  );
-}
-
-function cellLabel([status, date, meaning, waivedThrough]: CellTuple): string {
-  const when = waivedThrough
-    ? `waived through ${formatCalendarDate(waivedThrough)}`
-    : date
-      ? `${meaning === "d" ? "due" : "valid through"} ${formatCalendarDate(date)}`
-      : "";
-  return [STATUS_WORDS[status], when].filter(Boolean).join(", ");
-}
-
-function MatrixTable({
-  view,
-  onSort,
-}: {
-  view: Data;
-  onSort: (sort: MatrixSearch["sort"]) => void;
-}) {
-  const back = `/team/matrix${matrixSearch(view.search)}`;
-  const sortState = (col: MatrixSearch["sort"]) =>
-    view.search.sort === col
-      ? view.search.dir === "asc"
-        ? "ascending"
-        : "descending"
-      : "none";
-  return (
-    <div className="overflow-x-auto rounded-lg border border-rule bg-card">
-      <table className="border-collapse text-left text-sm" data-testid="matrix">
-        <caption className="sr-only">
-          Status of each requirement for each person; each cell opens its
-          evidence
-        </caption>
-        <thead className="sticky top-0 bg-card">
-          <tr className="border-b border-rule">
-            <th scope="col" aria-sort={sortState("name")} className="px-3 py-2">
-              <button
-                type="button"
-                className="min-h-11 font-semibold text-sea underline"
-                onClick={() => onSort("name")}
-              >
-                Person
-              </button>
-            </th>
-            <th scope="col" aria-sort={sortState("unit")} className="px-3 py-2">
-              <button
-                type="button"
-                className="min-h-11 font-semibold text-sea underline"
-                onClick={() => onSort("unit")}
-              >
-                Home unit
-              </button>
-            </th>
-            {view.columns.map((c) => (
-              <th
-                key={c.id}
-                scope="col"
-                className="max-w-40 px-3 py-2 align-bottom font-semibold"
-              >
-                {c.name}
-              </th>
-            ))}
-          </tr>
-        </thead>
-        <tbody>
-          {view.rows.map((r) => (
-            <MatrixRow key={r.id} row={r} columns={view.columns} back={back} />
-          ))}
-        </tbody>
-      </table>
-    </div>
-  );
-}
-
-function MatrixRow({
-  row: r,
-  columns,
-  back,
-}: {
-  row: Data["rows"][number];
-  columns: Data["columns"];
-  back: string;
-}) {
-  const cells = decodeCells(r.cells);
-  return (
-    <tr className="border-b border-rule align-top" data-testid="matrix-row">
-      <th scope="row" className="px-3 py-2 font-semibold whitespace-nowrap">
-        {r.name}
-      </th>
-      <td className="px-3 py-2 whitespace-nowrap">{r.homeUnit ?? "—"}</td>
-      {columns.map((c, i) => {
-        const cell = cells[i];
-        return (
-          <td
-            key={c.id}
-            className="px-3 py-2"
-            data-status={cell?.[0] ?? "not-applicable"}
-            data-requirement={c.name}
-          >
-            {cell ? (
-              <Link
-                to={`/team/people/${r.id}/requirements/${c.id}?back=${encodeURIComponent(back)}`}
-                aria-label={`${r.name}, ${c.name}: ${cellLabel(cell)}. Open the evidence`}
-                className="no-underline"
-              >
-                <StatusMark status={cell[0]} />
-              </Link>
-            ) : (
-              <span className="text-muted">
-                <span aria-hidden="true">—</span>
-                <span className="sr-only">Does not apply</span>
-              </span>
-            )}
-          </td>
-        );
-      })}
-    </tr>
   );
 }
 
