@@ -101,6 +101,18 @@ export default function Today() {
                 Your open work
               </h2>
               <PlanTable rows={work} dateHeader="Due" caption="Exams and check-offs assigned to you, soonest first" />
+              <p className="mt-3 flex flex-wrap gap-x-6 gap-y-2">
+                {work.some((r) => r.kind === "exam") ? (
+                  <Link to="/exams" className="font-semibold">
+                    Take or resume your exams
+                  </Link>
+                ) : null}
+                {work.some((r) => r.kind === "checklist") ? (
+                  <Link to="/checkoffs" className="font-semibold">
+                    Ask a preceptor for a check-off
+                  </Link>
+                ) : null}
+              </p>
             </section>
           ) : null}
 
