@@ -146,4 +146,34 @@ test.describe.serial("taking a timed exam", () => {
     await expect(page.getByTestId("result-summary")).toContainText("Not passed — 0 %");
     await expectNoAxeViolations(page, "result page (handed in)");
   });
+
+  test("the exam works with the keyboard alone: choose, flag, move on, hand in", async ({ page, signInAs }) => {
+    await signInAs("educator");
+    await page.goto(`/exams/${examId}/start`);
+    await page.getByRole("button", { name: "Start the exam" }).focus();
+    await page.keyboard.press("Enter");
+    await expect(page).toHaveURL(/\/exams\/attempts\/[0-9a-f-]{36}$/);
+    const question = page.getByTestId("question");
+    // Arrow keys move through a radio group and choose as they go (WAI-ARIA radio group pattern).
+    await question.getByRole("radio").first().focus();
+    await page.keyboard.press("Space");
+    await expect(question.getByRole("radio").first()).toBeChecked();
+    await page.keyboard.press("ArrowDown");
+    await expect(question.getByRole("radio").nth(1)).toBeChecked();
+    await question.getByLabel("Flag to come back to").focus();
+    await page.keyboard.press("Space");
+    await expect(page.getByTestId("saved-indicator")).toHaveText("All answers saved");
+    await page.getByRole("button", { name: "Next question" }).focus();
+    await page.keyboard.press("Enter");
+    // Moving on puts the keyboard focus on the new question's heading, so a screen reader reads it.
+    await expect(page.getByRole("heading", { name: "Question 2 of 3" })).toBeFocused();
+    await expect(page.getByTestId("nav-1")).toContainText("flagged for review");
+    await page.getByRole("button", { name: "Hand in the exam" }).focus();
+    await page.keyboard.press("Enter");
+    await expect(page.getByText("2 questions are not answered. 1 is flagged to come back to.")).toBeVisible();
+    await page.getByRole("button", { name: "Yes, hand it in" }).focus();
+    await page.keyboard.press("Enter");
+    await expect(page).toHaveURL(/\/result$/);
+    await expect(page.getByTestId("result-summary")).toContainText("handed in");
+  });
 });
