@@ -26,7 +26,8 @@ export async function hitRateLimit(key: string, rule: RateLimitRule, now: Date =
       });
     const [r] = await tx.select().from(rateLimitHits).where(eq(rateLimitHits.key, key));
     return r;
-  });
+    // Quiet: a hit counter is never shown by a cached read (Team pages), so it must not empty them.
+  }, { quiet: true });
   const allowed = row.count <= rule.limit;
   return {
     allowed,

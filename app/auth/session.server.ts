@@ -95,7 +95,7 @@ export async function startSession(personId: string, orgId: string, request: Req
       .returning({ id: sessions.id });
     await recordAudit(tx, { orgId, actorId: personId, action: "session.signed-in", entityType: "person", entityId: personId }, now);
     return s.id;
-  });
+  }, { quiet: true }); // sessions and the audit log are in no cached organisation-wide read (client.server.ts)
   return sessionCookie().serialize(id);
 }
 
@@ -105,5 +105,5 @@ export async function endSession(viewer: Viewer, now: Date = new Date()): Promis
   await write(async (tx) => {
     await tx.update(sessions).set({ endedAt: now }).where(eq(sessions.id, viewer.sessionId));
     await recordAudit(tx, { orgId: viewer.org.id, actorId: viewer.person.id, action: "session.signed-out", entityType: "person", entityId: viewer.person.id }, now);
-  });
+  }, { quiet: true });
 }

@@ -2,9 +2,11 @@ import type { Database } from "./client.server";
 
 /**
  * Results of costly organisation-wide reads (a manager's counts over 2,000 people, a Team page),
- * kept until the next write transaction this process commits — every write goes through the
- * writer queue, which counts them — and for at most `MAX_AGE_MS`, so a write made by another
- * process (a command-line job) shows within that time. npm run bench measures the effect.
+ * kept until the next loud write transaction this process commits — every write goes through the
+ * writer queue, which counts them; a write marked `{ quiet: true }` (an exam answer saved, see
+ * `createWriter` in client.server.ts) cannot change what these reads show and leaves them — and
+ * for at most `MAX_AGE_MS`, so a write made by another process (a command-line job) shows within
+ * that time. npm run bench measures the effect.
  */
 export const MAX_AGE_MS = 30_000;
 const MAX_ENTRIES = 500;

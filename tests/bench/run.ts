@@ -6,7 +6,10 @@
  *      says why not build/) and the JavaScript the Bench route adds, gzipped (target under 60 KB);
  *   3. HTTP: the large organisation (--people 2000) in its own database file, the production
  *      server on loopback, autocannon on the sign-in page, Today and Team as the manager, and
- *      /healthz, compared with STACK.md's reference ceilings for context;
+ *      /healthz, compared with STACK.md's reference ceilings for context; the Team matrix with
+ *      40 requirements: its data request under the same load, one manager's sequential document
+ *      and data requests beside the bare SQL, and the first request after a loud and a quiet
+ *      write (tests/bench/team-matrix.ts);
  *   4. the exam autosave under a realistic load (issue 5 item 7, tests/bench/autosave.ts): 300
  *      therapists of the same database each saving an answer every 5 s for 2 minutes against a
  *      fresh server of the same build; save p50/p95/p99, answers acknowledged, found, lost.
@@ -37,7 +40,18 @@ import { prepareBenchDatabase, sessionCookieHeader } from "./session";
 import { autosaveSettings, formatAutosave, measureAutosave, stopAutosave, type AutosaveSettings } from "./autosave";
 import { formatScoring, timeScoring } from "./scoring";
 import { timeModes } from "./sim";
-import { formatTeamMatrix, timeBareMatrixSql, widenRequirements, withRequest, type TeamMatrixFigure } from "./team-matrix";
+import {
+  formatTeamMatrix,
+  formatTeamMatrixSequential,
+  measureMatrixAfterWrites,
+  measureMatrixSequential,
+  prepareMatrixWriter,
+  timeBareMatrixSql,
+  widenRequirements,
+  withRequest,
+  withSequential,
+  type TeamMatrixFigure,
+} from "./team-matrix";
 
 const PROJECT_ROOT = path.resolve(import.meta.dirname, "..", "..");
 const BENCH_DIR = path.join(PROJECT_ROOT, "data", "bench");
@@ -142,6 +156,13 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
   } catch (error) {
     errors.push(`team-matrix bare SQL: ${message(error)}`);
   }
+  // A therapist who makes the loud and quiet writes the matrix is timed after (tests/bench/team-matrix.ts).
+  let matrixWriter: Awaited<ReturnType<typeof prepareMatrixWriter>> | undefined;
+  try {
+    matrixWriter = await prepareMatrixWriter(db.databaseUrl, SESSION_SECRET);
+  } catch (error) {
+    errors.push(`team-matrix writer: ${message(error)}`);
+  }
 
   const port = await choosePort(positive("port", flags.port));
   server = await startBenchServer({
@@ -202,8 +223,27 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
         errors.push(`HTTP ${matrixTarget.name}: ${message(error)}`);
       }
     }
+    // One manager alone (the case the target describes), then the first request after a loud and a quiet write.
+    if (!interrupted) {
+      try {
+        console.log("Measuring the Team matrix for one manager: sequential document and data requests on one connection …");
+        matrixFigure = withSequential(matrixFigure, await measureMatrixSequential(server.baseUrl, cookie.Cookie));
+      } catch (error) {
+        errors.push(`team-matrix sequential: ${message(error)}`);
+      }
+    }
+    if (matrixWriter && !interrupted) {
+      try {
+        console.log(`Measuring the Team matrix after loud and quiet writes (as ${matrixWriter.email}) …`);
+        matrixFigure = { ...matrixFigure, afterWrite: await measureMatrixAfterWrites(server.baseUrl, cookie.Cookie, matrixWriter) };
+      } catch (error) {
+        errors.push(`team-matrix after writes: ${message(error)}`);
+      }
+    }
     settings["team-matrix"] = matrixFigure;
     console.log(formatTeamMatrix(matrixFigure));
+    const more = formatTeamMatrixSequential(matrixFigure);
+    if (more) console.log(more);
   }
   return figures;
 }

@@ -1,5 +1,6 @@
+import { addDays as fnsAddDays, differenceInCalendarDays, format } from "date-fns";
 import { describe, expect, it } from "vitest";
-import { addDays, addMonths, calendarDateIn, daysBetween, isIsoDate } from "./calendar-date";
+import { addDays, addMonths, calendarDateIn, daysBetween, isIsoDate, parseIsoDate } from "./calendar-date";
 
 describe("calendar dates", () => {
   it.each([
@@ -31,5 +32,27 @@ describe("calendar dates", () => {
     { instant: "2026-12-03T07:59:00Z", timeZone: "America/Los_Angeles", expected: "2026-12-02" },
   ])("$instant is $expected in $timeZone", ({ instant, timeZone, expected }) => {
     expect(calendarDateIn(timeZone, new Date(instant))).toBe(expected);
+  });
+
+  // The parse and day number of a date are remembered (the Team matrix adds and compares dates
+  // 80,000 times an assessment): asked again and again, the answers stay those of date-fns (a
+  // second date library, as a cross-check) over eight years either side of a leap day, asked
+  // twice, and a bad date still throws after good ones were remembered.
+  it("answers the same when dates are asked again, as date-fns does", () => {
+    const local = (iso: string) => {
+      const { year, month, day } = parseIsoDate(iso);
+      return new Date(year, month - 1, day);
+    };
+    for (let pass = 0; pass < 2; pass++) {
+      for (let offset = -1500; offset <= 1500; offset += 7) {
+        const expected = format(fnsAddDays(new Date(2028, 1, 29), offset), "yyyy-MM-dd");
+        expect(addDays("2028-02-29", offset)).toBe(expected);
+        expect(daysBetween("2028-02-29", expected)).toBe(offset);
+        expect(daysBetween(expected, "2026-12-02")).toBe(differenceInCalendarDays(local("2026-12-02"), local(expected)));
+      }
+    }
+    expect(() => addDays("2026-02-30", 1)).toThrow("no such date: 2026-02-30");
+    expect(() => daysBetween("2026-12-02", "2026-12-2")).toThrow("not a YYYY-MM-DD date: 2026-12-2");
+    expect(addDays("2026-12-02", 0.5)).toBe("2026-12-02"); // a fraction of a day goes the long way, as before
   });
 });

@@ -13,13 +13,48 @@ export function daysInMonth(year: number, month: number): number {
   return new Date(Date.UTC(year, month, 0)).getUTCDate();
 }
 
+/*
+ * The Team matrix judges 80,000 person × requirement cells per assessment, each with a few date
+ * comparisons and additions over a few thousand distinct dates, so the parse of a valid date and
+ * its day number are remembered (a bounded map, emptied when full; invalid text is never kept and
+ * still throws). The results are the same as computing them afresh.
+ */
+type DateParts = { readonly year: number; readonly month: number; readonly day: number };
+const MEMO_LIMIT = 20_000;
+const parsed = new Map<string, DateParts>();
+const dayNumbers = new Map<string, number>();
+const fromDayNumbers = new Map<number, IsoDate>();
+function remember<K, V>(map: Map<K, V>, key: K, value: V): V {
+  if (map.size >= MEMO_LIMIT) map.clear();
+  map.set(key, value);
+  return value;
+}
+
 /** The three numbers of a calendar date; throws on anything that is not a real date. */
 export function parseIsoDate(value: string): { year: number; month: number; day: number } {
+  const known = parsed.get(value);
+  if (known) return { year: known.year, month: known.month, day: known.day };
   const match = ISO_DATE.exec(value);
   if (!match) throw new RangeError(`not a YYYY-MM-DD date: ${value}`);
   const [year, month, day] = [Number(match[1]), Number(match[2]), Number(match[3])];
   if (month < 1 || month > 12 || day < 1 || day > daysInMonth(year, month)) throw new RangeError(`no such date: ${value}`);
+  remember(parsed, value, Object.freeze({ year, month, day }));
   return { year, month, day };
+}
+
+/** Days since 1970-01-01 of a valid date (throws like parseIsoDate otherwise). */
+function dayNumber(value: IsoDate): number {
+  const known = dayNumbers.get(value);
+  if (known !== undefined) return known;
+  const { year, month, day } = parseIsoDate(value);
+  return remember(dayNumbers, value, Date.UTC(year, month - 1, day) / 86_400_000);
+}
+
+function isoOfDayNumber(n: number): IsoDate {
+  const known = fromDayNumbers.get(n);
+  if (known !== undefined) return known;
+  const t = new Date(n * 86_400_000);
+  return remember(fromDayNumbers, n, formatIsoDate(t.getUTCFullYear(), t.getUTCMonth() + 1, t.getUTCDate()));
 }
 
 export function isIsoDate(value: unknown): value is IsoDate {
@@ -36,17 +71,15 @@ export function formatIsoDate(year: number, month: number, day: number): IsoDate
   return `${String(year).padStart(4, "0")}-${String(month).padStart(2, "0")}-${String(day).padStart(2, "0")}`;
 }
 
-function utcDay(value: IsoDate): number {
-  const { year, month, day } = parseIsoDate(value);
-  return Date.UTC(year, month - 1, day) / 86_400_000;
-}
-
 /** Whole days from `from` to `to`: positive when `to` is later. */
 export function daysBetween(from: IsoDate, to: IsoDate): number {
-  return Math.round(utcDay(to) - utcDay(from));
+  return Math.round(dayNumber(to) - dayNumber(from));
 }
 
 export function addDays(value: IsoDate, days: number): IsoDate {
+  const n = dayNumber(value);
+  // Whole days stay on the memo; anything else goes the long way (Date.UTC takes fractions as is).
+  if (Number.isInteger(days)) return isoOfDayNumber(n + days);
   const { year, month, day } = parseIsoDate(value);
   const t = new Date(Date.UTC(year, month - 1, day + days));
   return formatIsoDate(t.getUTCFullYear(), t.getUTCMonth() + 1, t.getUTCDate());

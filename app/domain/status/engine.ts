@@ -66,12 +66,6 @@ export type Assessment = {
   evidence: Evidence[];
 };
 
-function latest(dates: readonly (IsoDate | null)[]): IsoDate | null {
-  let out: IsoDate | null = null;
-  for (const d of dates) if (d !== null && (out === null || d > out)) out = d;
-  return out;
-}
-
 /**
  * The dates that decide the status, computed once per assessment (ISO dates compare as strings,
  * so judging a day is then a few string comparisons — the Team matrix judges 80,000 cells).
@@ -86,14 +80,33 @@ type Thresholds = {
   waiver: EngineWaiver | null;
 };
 
+/** The later of two optional dates (what `latest([a, b])` gives, without the array). */
+function later(a: IsoDate | null, b: IsoDate | null): IsoDate | null {
+  if (a === null) return b;
+  if (b === null) return a;
+  return b > a ? b : a;
+}
+
+/**
+ * The waiver that ends last among those not revoked. Most cells have none or one, and skip the
+ * sort; with several, the sort stays exactly as written (its order among equal end dates is the
+ * one the evidence has always shown).
+ */
+function lastWaiver(waivers: readonly EngineWaiver[]): EngineWaiver | null {
+  if (waivers.length === 0) return null;
+  if (waivers.length === 1) return waivers[0].revoked ? null : waivers[0];
+  return waivers.filter((w) => !w.revoked).sort((a, b) => (a.endsOn < b.endsOn ? 1 : -1))[0] ?? null;
+}
+
 function thresholdsOf(input: AssessInput, reminderDays: number): Thresholds {
-  const extendedTo = latest(input.extensions.map((e) => e.newDueOn));
+  let extendedTo: IsoDate | null = null;
+  for (const e of input.extensions) extendedTo = later(extendedTo, e.newDueOn);
   const v = input.held?.validThrough ?? null;
-  const waiver = input.waivers.filter((w) => !w.revoked).sort((a, b) => (a.endsOn < b.endsOn ? 1 : -1))[0] ?? null;
+  const waiver = lastWaiver(input.waivers);
   return {
     windowStart: input.held && v !== null ? addDays(v, -reminderDays) : null,
-    heldEnd: input.held && v !== null ? latest([addDays(v, Math.max(0, input.graceDays)), extendedTo]) : null,
-    due: input.held ? null : latest([input.dueOn, extendedTo]),
+    heldEnd: input.held && v !== null ? later(addDays(v, Math.max(0, input.graceDays)), extendedTo) : null,
+    due: input.held ? null : later(input.dueOn, extendedTo),
     waiver,
   };
 }
@@ -122,6 +135,9 @@ function breakpoints(input: AssessInput, reminderDays: number): IsoDate[] {
   if (input.dueOn) out.push(addDays(input.dueOn, 1));
   for (const e of input.extensions) out.push(addDays(e.newDueOn, 1));
   for (const w of input.waivers) if (!w.revoked) out.push(addDays(w.endsOn, 1));
+  // The usual two days (a held record) without a Set; ISO dates sort as text, as `sort()` does.
+  if (out.length < 2) return out;
+  if (out.length === 2) return out[0] === out[1] ? [out[0]] : out[0] < out[1] ? out : [out[1], out[0]];
   return [...new Set(out)].sort();
 }
 
@@ -141,7 +157,8 @@ export function assessOn(input: AssessInput, today: IsoDate, reminderDays: numbe
       break;
     }
   }
-  const extensionInForce = [...input.extensions].sort((a, b) => (a.newDueOn < b.newDueOn ? 1 : -1))[0] ?? null;
+  const extensionInForce =
+    input.extensions.length < 2 ? (input.extensions[0] ?? null) : ([...input.extensions].sort((a, b) => (a.newDueOn < b.newDueOn ? 1 : -1))[0] ?? null);
   const v = input.held?.validThrough ?? null;
   const evidence: Evidence[] = [];
   if (input.held) evidence.push(input.held.evidence);

@@ -107,6 +107,14 @@ describe("a therapist's plan on 2026-12-02", () => {
     ]);
   });
 
+  it("gives the Team matrix the same requirement rows, in the requirements' order, without the rest", () => {
+    const cellsOnly = buildPlan(input, { today }, { requirementsOnly: true });
+    const expected = plan.filter((r) => r.key.startsWith("requirement:"));
+    expect(cellsOnly.map((r) => r.requirementId)).toEqual(input.requirements.filter((r) => expected.some((e) => e.requirementId === r.id)).map((r) => r.id));
+    expect([...cellsOnly].sort((a, b) => (a.key < b.key ? -1 : 1))).toEqual([...expected].sort((a, b) => (a.key < b.key ? -1 : 1)));
+    expect(cellsOnly.some((r) => r.title === "Circuit change" || r.title === "Board credential")).toBe(false);
+  });
+
   it("says how long ago the lapsed check-off fell due", () => {
     expect(plan[0].result.daysLapsed).toBe(9);
     expect(plan[0].dateMeaning).toBe("due");
