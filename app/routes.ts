@@ -7,6 +7,8 @@ import { type RouteConfig, index, layout, prefix, route } from "@react-router/de
 export default [
   index("routes/home.tsx"),
   route("healthz", "routes/api/healthz.ts"),
+  // Public verification of a certificate's code (printed on the PDF and in its QR code)
+  route("verify/:code", "routes/verify.tsx"),
 
   // Sign-in and sign-out
   route("login", "routes/auth/login.tsx"),
@@ -40,6 +42,8 @@ export default [
     layout("routes/credentials/layout.tsx", [
       route("credentials", "routes/credentials/index.tsx"),
       route("credentials/:credentialId/scan", "routes/credentials/scan.ts"),
+      route("credentials/certificates/:certificateId", "routes/credentials/certificate.tsx"),
+      route("credentials/certificates/:certificateId/certificate.pdf", "routes/credentials/certificate-pdf.ts"),
     ]),
     layout("routes/checkoffs/layout.tsx", [
       route("checkoffs", "routes/checkoffs/index.tsx"),
@@ -61,6 +65,10 @@ export default [
       route("bank/exams/new", "routes/bank/exam-new.tsx"),
       route("bank/exams/:examId", "routes/bank/exam.tsx"),
       route("bank/exams/:examId/edit", "routes/bank/exam-edit.tsx"),
+      route("bank/exams/:examId/analysis", "routes/bank/exam-analysis.tsx"),
+      route("bank/exams/:examId/analysis.csv", "routes/bank/exam-analysis-csv.ts"),
+      route("bank/exams/:examId/analysis.pdf", "routes/bank/exam-analysis-pdf.ts"),
+      route("bank/exams/:examId/cut-score", "routes/bank/exam-cut-score.tsx"),
     ]),
     ...prefix("admin", [
       layout("routes/admin/layout.tsx", [

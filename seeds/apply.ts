@@ -15,6 +15,7 @@ import type { Dataset } from "./dataset";
  * Tables without an org_id column are handled by the joins in `resetOrganisation`.
  */
 const OWNED_IN_DELETE_ORDER = [
+  schema.angoffRatings,
   schema.domainEvents,
   schema.responses,
   schema.attempts,
@@ -122,6 +123,8 @@ export async function insertDataset(tx: Tx, data: Dataset): Promise<void> {
   await insertRows(tx, schema.credentials, data.credentials);
   await insertRows(tx, schema.waivers, data.waivers);
   await insertRows(tx, schema.assignments, data.assignments);
+  await insertRows(tx, schema.attempts, data.attempts);
+  await insertRows(tx, schema.responses, data.responses);
   await insertRows(tx, schema.orientationPlans, data.orientationPlans);
   await insertRows(tx, schema.orientationPlanItems, data.orientationPlanItems);
   // Seeded check-offs arrive already signed, and the triggers refuse step results for a signed
@@ -133,4 +136,5 @@ export async function insertDataset(tx: Tx, data: Dataset): Promise<void> {
   await insertRows(tx, schema.checkoffStepResults, data.checkoffStepResults);
   await insertRows(tx, schema.signatures, data.signatures);
   await restoreImmutability(runner);
+  await insertRows(tx, schema.certificates, data.certificates);
 }

@@ -4,6 +4,8 @@
  */
 import type {
   assignments,
+  attempts,
+  certificates,
   checklists,
   checklistVersions,
   credentials,
@@ -24,6 +26,7 @@ import type {
   personUnits,
   regulatoryReferences,
   requirements,
+  responses,
   topics,
   units,
   waivers,
@@ -50,11 +53,16 @@ export type Dataset = {
   credentials: (typeof credentials.$inferInsert)[];
   waivers: (typeof waivers.$inferInsert)[];
   assignments: (typeof assignments.$inferInsert)[];
+  /** Graded past sittings of an exam (seeds/exam-history.ts), so item analysis has data. */
+  attempts: (typeof attempts.$inferInsert)[];
+  responses: (typeof responses.$inferInsert)[];
   orientationPlans: (typeof orientationPlans.$inferInsert)[];
   orientationPlanItems: (typeof orientationPlanItems.$inferInsert)[];
   checkoffs: (typeof checkoffs.$inferInsert)[];
   checkoffStepResults: (typeof checkoffStepResults.$inferInsert)[];
   signatures: (typeof signatures.$inferInsert)[];
+  /** Certificates of the signed competent check-offs (seeds/certificates.ts). */
+  certificates: (typeof certificates.$inferInsert)[];
 };
 
 export function emptyDataset(): Dataset {
@@ -78,11 +86,14 @@ export function emptyDataset(): Dataset {
     credentials: [],
     waivers: [],
     assignments: [],
+    attempts: [],
+    responses: [],
     orientationPlans: [],
     orientationPlanItems: [],
     checkoffs: [],
     checkoffStepResults: [],
     signatures: [],
+    certificates: [],
   };
 }
 

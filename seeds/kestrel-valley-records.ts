@@ -8,6 +8,7 @@ import type { CredentialTypeCode, CredentialTypeRef, ExamKey, OrgContext } from 
 import { drawStatus, type DateStatus } from "./credential-dates";
 import { addCredential, type CredentialOptions, type CredentialPlan } from "./credential-records";
 import { KESTREL_VALLEY, type KvPerson, type KvRoster, type KvUnitKey } from "./kestrel-valley";
+import { addSeededCertificates } from "./certificates";
 import { addSignedCheckoff } from "./orientation-checkoffs";
 import { prngFor, type Prng } from "./prng";
 
@@ -254,4 +255,8 @@ export function addKvRecords(ctx: OrgContext, roster: KvRoster, cat: KvCatalogue
     else waive(p, "annual-checkoff", WAIVER_REASONS.checkoff, 45);
   });
   addOrientationPlans(ctx, roster, cat);
+  // The demo therapist's refresher check-off of a skill outside the requirements, signed competent
+  // by the demo preceptor six weeks ago: so the demo therapist has a certificate to download.
+  addSignedCheckoff(ctx, { hire: therapist, preceptor, checklistKey: "high-pressure-alarm", on: addDays(t, -40), timeZone: KESTREL_VALLEY.timeZone });
+  addSeededCertificates(ctx, KESTREL_VALLEY.timeZone);
 }

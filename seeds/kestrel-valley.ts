@@ -18,6 +18,7 @@ import {
   type OrgContext,
 } from "./catalogue";
 import { emptyDataset, type Dataset } from "./dataset";
+import { addExamHistory } from "./exam-history";
 import { addKvRecords } from "./kestrel-valley-records";
 import { createNamer } from "./names";
 import { prngFor, type Prng } from "./prng";
@@ -33,6 +34,8 @@ export const KESTREL_VALLEY = {
 
 /** 40 therapists (6 preceptors, 2 educators, 3 new hires among them), 1 manager, 1 admin. */
 export const KV_DEFAULT_PEOPLE = 42;
+/** How long the question bank and the exams have been in use (their versions' dates). */
+const BANK_IN_USE_MONTHS = 38;
 /** The five demo accounts need room around them. */
 export const KV_MIN_PEOPLE = 12;
 
@@ -237,11 +240,15 @@ export function buildKestrelValley(options: BuildOptions): { data: Dataset; rost
   addTopics(ctx);
   const references = addRegulatoryReferences(ctx, REGULATORY_REFERENCES);
   const types = addCredentialTypes(ctx, CREDENTIAL_TYPES);
-  const exams = addExams(ctx, roster.demo.educator.id);
+  // The annual exam and the bank have been in use for three years, so their past sittings
+  // (seeds/exam-history.ts) come after the versions they sat.
+  const inUseSince: OrgContext = { ...ctx, at: instantOn(addMonths(ctx.today, -BANK_IN_USE_MONTHS)) };
+  const exams = addExams(inUseSince, roster.demo.educator.id);
   const checklists = addChecklists(ctx, roster.demo.educator.id);
   // The question bank: written and approved by the two educators in turn (seeds/bank/).
   const secondEducator = data.personRoles.find((r) => r.role === "educator" && r.personId !== roster.demo.educator.id)?.personId ?? roster.demo.educator.id;
-  addBank(ctx, [roster.demo.educator.id, secondEducator]);
+  addBank(inUseSince, [roster.demo.educator.id, secondEducator]);
   addKvRecords(ctx, roster, { references, types, exams, checklists });
+  addExamHistory(ctx, roster, { examId: exams.get("annual-modes")!, versionId: ctx.id("exam-version", "annual-modes", 1) });
   return { data, roster, orgId: ctx.orgId };
 }

@@ -14,6 +14,7 @@ import { can, isRole, type Role } from "../../app/auth/roles";
 import { seededChecklistId, seededCheckoffId, seededEvidenceId } from "../fixtures/checkoffs";
 import { seededItemId } from "../fixtures/bank";
 import { seededAttemptId, seededExamId } from "../fixtures/exams";
+import { seededCertificateCode, seededCertificateId } from "../fixtures/certificates";
 import { seededCredentialId, seededRequirementId } from "../fixtures/credentials";
 import { firstPersonId, insertSession, one, rolesOf } from "../fixtures/e2e-db";
 import { APP_URL, DEMO, type DemoKey } from "../fixtures/e2e-env";
@@ -39,6 +40,8 @@ const PARAMS: Record<string, (org: Identity["org"]) => Promise<string>> = {
   requirementId: (org) => seededRequirementId(org),
   examId: (org) => seededExamId(org),
   attemptId: (org) => seededAttemptId(org),
+  certificateId: (org) => seededCertificateId(org),
+  code: (org) => seededCertificateCode(org),
 };
 
 /** A catch-all segment that no route claims. */

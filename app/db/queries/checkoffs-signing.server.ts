@@ -17,7 +17,8 @@ import { canonicalAddendumContent, canonicalCheckoffContent, signatureMeaning, s
 import { calendarDateIn } from "~/domain/status/calendar-date";
 import { recordAudit } from "../audit.server";
 import { database, type Tx } from "../client.server";
-import { addenda, auditEvents, checkoffs, people, personRoles, signatures, type Signature } from "../schema";
+import { addenda, assignments, auditEvents, checkoffs, domainEvents, people, personRoles, requirements, signatures, type Signature } from "../schema";
+import { issueCertificateSoon, type CheckoffSignedPayload } from "./certificates.server";
 import { getCheckoffRecord, type CheckoffRecord } from "./checkoffs.server";
 import type { WriteResult } from "./checkoffs-write.server";
 
@@ -162,7 +163,7 @@ async function insertSignature(
 /** The preceptor signs the observed check-off; needs practice schedules a repeat. */
 export async function signCheckoff(viewer: Viewer, checkoffId: string, input: SignInput, now = new Date()): Promise<WriteResult<{ repeatId: string | null }>> {
   const { write } = await database();
-  return write(async (tx) => {
+  const result = await write(async (tx) => {
     const record = await getCheckoffRecord(viewer.org.id, checkoffId, tx);
     if (!record) return { ok: false as const, status: 404 as const, message: "We could not find that check-off." };
     const signer = await resolveSigner(tx, viewer, input.email);
@@ -196,8 +197,38 @@ export async function signCheckoff(viewer: Viewer, checkoffId: string, input: Si
       { orgId: viewer.org.id, actorId: signer.id, action: "checkoff.signed", entityType: "checkoff", entityId: checkoffId, detail: { signatureId: signature.id, meaning, outcome: record.checkoff.outcome, contentHash, method: signer.method, repeatId } },
       now,
     );
+    if (record.checkoff.outcome === "competent") await recordCompetentSigning(tx, viewer.org.id, record, signer, now);
     return { ok: true as const, value: { repeatId } };
   });
+  // The certificate, once the signing has committed (its own write; the periodic sweep retries).
+  if (result.ok) await issueCertificateSoon(checkoffId, now);
+  return result;
+}
+
+/** The "checkoff.signed" event a certificate is issued from, in the signing's own transaction. */
+async function recordCompetentSigning(tx: Tx, orgId: string, record: CheckoffRecord, signer: Signer, now: Date): Promise<void> {
+  const [assignment] = record.checkoff.assignmentId
+    ? await tx.select({ requirementId: assignments.requirementId }).from(assignments).where(and(eq(assignments.orgId, orgId), eq(assignments.id, record.checkoff.assignmentId)))
+    : [];
+  const [req] = assignment?.requirementId
+    ? [{ id: assignment.requirementId }]
+    : await tx
+        .select({ id: requirements.id })
+        .from(requirements)
+        .where(and(eq(requirements.orgId, orgId), eq(requirements.checklistId, record.checklist.id), eq(requirements.active, true)))
+        .limit(1);
+  const payload: CheckoffSignedPayload = {
+    checklistId: record.checklist.id,
+    checklistVersionId: record.checklist.versionId,
+    title: record.checklist.title,
+    requirementId: req?.id ?? null,
+    preceptorName: signer.credentialLetters ? `${signer.name}, ${signer.credentialLetters}` : signer.name,
+    signedAt: now.toISOString(),
+  };
+  await tx
+    .insert(domainEvents)
+    .values({ orgId, kind: "checkoff.signed", subjectId: record.checkoff.id, personId: record.checkoff.personId, payload, createdAt: now })
+    .onConflictDoNothing();
 }
 
 /** The therapist observed acknowledges the signed record, on their own device or the preceptor's tablet. */

@@ -16,6 +16,7 @@ import { acceptsAnswerAt, allowedSeconds, blueprintSchema, deadlineFor, drawForm
 import { parseNumericAnswer, scoreAttempt, type AttemptScore, type ScoringPolicy } from "~/domain/scoring";
 import { calendarDateIn, type IsoDate } from "~/domain/status";
 import { activeAccommodationFor } from "./accommodations.server";
+import { issueCertificateSoon, issuePendingCertificates } from "./certificates.server";
 import { contentOf, topicsOf } from "./bank.server";
 import { loadPool } from "./exam-pool.server";
 
@@ -292,6 +293,8 @@ export async function saveAnswer(
   }
   if (change.flagged !== undefined) set.flagged = change.flagged;
   // The guard re-checks, inside the queue, that the attempt was not closed since the read above.
+  // Quiet: an answer or a flag on an open attempt changes no status, so the Team pages' cached
+  // assessment stays (createWriter in client.server.ts); closing and grading stay loud.
   const saved = await write((tx) =>
     tx
       .update(responses)
@@ -304,6 +307,7 @@ export async function saveAnswer(
         ),
       )
       .returning({ position: responses.position }),
+    { quiet: true },
   );
   if (saved.length === 0) return { ok: false, status: 409, closed: true, message: "This attempt was closed a moment ago; this answer was not saved." };
   return { ok: true, position, savedAt: now.toISOString() };
@@ -320,7 +324,7 @@ export async function saveView(who: Who, attemptId: string, view: { position?: n
       .set({ ...(view.position !== undefined ? { lastPosition: view.position } : {}), ...(view.layout ? { layout: view.layout } : {}) })
       .where(eq(attempts.id, attemptId));
     return true;
-  });
+  }, { quiet: true }); // where the examinee is and how they see it: nothing a cached read shows
 }
 
 /** The stored answer as the scoring module reads it. */
@@ -363,7 +367,7 @@ async function gradeInside(tx: Tx, attempt: Attempt, version: VersionSettings): 
  */
 export async function finishAttempt(orgId: string, attemptId: string, reason: "submitted" | "deadline", now = new Date()): Promise<GradeOutcome | null> {
   const { write } = await database();
-  return write(async (tx) => {
+  const outcome = await write(async (tx) => {
     const [row] = await tx
       .select({ attempt: attempts, version: examVersions })
       .from(attempts)
@@ -423,6 +427,9 @@ export async function finishAttempt(orgId: string, attemptId: string, reason: "s
     );
     return { attemptId, alreadyClosed: false, score: { raw: score.raw, max: score.max, percent: score.percent, passed: score.passed } };
   });
+  // The pass's certificate, once the grading has committed (its own write; the sweep retries).
+  if (outcome && !outcome.alreadyClosed && outcome.score.passed) await issueCertificateSoon(attemptId, now);
+  return outcome;
 }
 
 async function examRequirement(db: DbOrTx, orgId: string, examId: string): Promise<string | null> {
@@ -461,6 +468,8 @@ export function ensureDeadlineSweeper(): void {
   if (sweeper || process.env.VITEST) return;
   sweeper = setInterval(() => {
     closeExpiredAttempts().catch((error) => console.error("closing expired attempts failed", error));
+    // Certificates for any pass or signing whose own call did not get through (issue 9 §2).
+    issuePendingCertificates().catch((error) => console.error("issuing pending certificates failed", error));
   }, 5000);
   sweeper.unref?.();
 }

@@ -168,3 +168,25 @@ export type Assignment = typeof assignments.$inferSelect;
 export type Attempt = typeof attempts.$inferSelect;
 export type ExamVersion = typeof examVersions.$inferSelect;
 export type Accommodation = typeof accommodations.$inferSelect;
+
+/**
+ * A modified Angoff panel (Livingston & Zieky, "Passing Scores", ETS 1982): each educator's
+ * estimate, per item, of the chance that a minimally competent therapist answers it correctly.
+ * Round 1 is rated blind; round 2 optionally after seeing the item statistics.
+ */
+export const angoffRatings = sqliteTable(
+  "angoff_ratings",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    examId: text("exam_id").notNull().references(() => exams.id),
+    judgeId: text("judge_id").notNull().references(() => people.id),
+    itemId: text("item_id").notNull(),
+    round: integer("round").notNull().default(1),
+    /** Between 0 and 1. */
+    rating: real("rating").notNull(),
+    updatedAt: updatedAt(),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("angoff_ratings_once").on(t.examId, t.judgeId, t.itemId, t.round), index("angoff_ratings_exam").on(t.examId)],
+);

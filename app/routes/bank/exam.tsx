@@ -139,6 +139,9 @@ export default function ExamPage({ actionData }: Route.ComponentProps) {
         <Link to={`/bank/exams/${exam.id}/edit`} className={buttonClass("secondary", "no-underline")}>
           Edit (makes version {latest.version + 1})
         </Link>
+        <Link to={`/bank/exams/${exam.id}/cut-score`} className={buttonClass("secondary", "no-underline")}>
+          Cut score
+        </Link>
         {canPublish ? (
           <Form method="post">
             <Button type="submit" name="intent" value="publish">
@@ -245,6 +248,16 @@ export default function ExamPage({ actionData }: Route.ComponentProps) {
         <h3 id="attempts-heading" className="text-xl font-semibold">
           Attempts ({attempts.length})
         </h3>
+        <p>
+          <Link to={`/bank/exams/${exam.id}/analysis`}>Item analysis</Link> of the graded attempts (difficulty, discrimination, reliability) ·{" "}
+          <a href={`/bank/exams/${exam.id}/analysis.csv`} download>
+            CSV
+          </a>{" "}
+          ·{" "}
+          <a href={`/bank/exams/${exam.id}/analysis.pdf`} download>
+            PDF
+          </a>
+        </p>
         {attempts.length === 0 ? (
           <p className="text-muted">Nobody has sat this exam yet.</p>
         ) : (

@@ -29,6 +29,9 @@ import { MAX_UPLOAD_BYTES } from "~/files/file-type";
 import { bodyTooLarge, fileBytes } from "~/files/store.server";
 import { StatusMark } from "~/components/ui/status-mark";
 import { statusDetail } from "~/components/plan-table";
+import { CertificateList } from "./certificate-list";
+import { listCertificatesOf } from "~/db/queries/certificates.server";
+import { calendarDateIn } from "~/domain/status";
 import { CREDENTIAL_INTENTS, recordCredentialSchema, VERIFICATION_METHODS, verifyCredentialSchema } from "./schemas";
 import type { Route } from "./+types/index";
 
@@ -40,13 +43,14 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   const requested = search.get("person");
   const subjectId = requested && requested !== viewer.person.id ? requested : viewer.person.id;
   if (!(await mayActFor(orgId, viewer.person.id, subjectId, canVerify))) notFound("We could not find that person on your units.", true);
-  const [subject, types, held, managed, awaiting, options] = await Promise.all([
+  const [subject, types, held, managed, awaiting, options, certificates] = await Promise.all([
     personOf(orgId, subjectId),
     listCredentialTypes(orgId),
     listCredentialsOf(orgId, subjectId),
     canVerify ? listManagedPeople(orgId, viewer.person.id) : Promise.resolve([]),
     canVerify ? listAwaitingVerification(orgId, viewer.person.id) : Promise.resolve([]),
     statusOptionsFor(orgId, viewer.org.timeZone),
+    listCertificatesOf(orgId, subjectId, calendarDateIn(viewer.org.timeZone, new Date())),
   ]);
   if (!subject) notFound("We could not find that person on your units.", true);
   return {
@@ -57,6 +61,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     held: held.map((c) => ({ ...c, result: heldStatus(c.validThrough, options) })),
     managed: managed.filter((p) => p.id !== viewer.person.id).map((p) => ({ id: p.id, name: p.name })),
     awaiting,
+    certificates,
     canVerify,
     preselectType: types.some((t) => t.id === search.get("type")) ? search.get("type") : null,
     today: options.today,
@@ -121,7 +126,7 @@ async function verifyIntent(viewer: ViewerArg, formData: FormData) {
 }
 
 export default function Credentials() {
-  const { subject, isSelf, types, held, managed, awaiting, canVerify, preselectType, today, reminderDays, timeZone } = useLoaderData<typeof loader>();
+  const { subject, isSelf, types, held, managed, awaiting, certificates, canVerify, preselectType, today, reminderDays, timeZone } = useLoaderData<typeof loader>();
   return (
     <>
       <h1 className="text-3xl font-semibold">Credentials</h1>
@@ -137,6 +142,8 @@ export default function Credentials() {
         </h2>
         {held.length === 0 ? <p className="mt-2">Nothing recorded yet.</p> : <CredentialTable rows={held} timeZone={timeZone} today={today} showPerson={false} />}
       </section>
+
+      <CertificateList rows={certificates} isSelf={isSelf} subjectName={subject.name} />
 
       <RecordForm key={subject.id} subject={subject} types={types} isSelf={isSelf} preselectType={preselectType} />
 
