@@ -7,6 +7,22 @@ import { type RouteConfig, index, layout, prefix, route } from "@react-router/de
 export default [
   index("routes/home.tsx"),
   route("healthz", "routes/api/healthz.ts"),
+  // The JSON API (bearer tokens, no session) and its OpenAPI document
+  ...prefix("api/v1", [
+    route("openapi.json", "routes/api/v1/openapi.ts"),
+    route("people", "routes/api/v1/people.ts"),
+    route("people/:personId/status", "routes/api/v1/person-status.ts"),
+    route("units", "routes/api/v1/units.ts"),
+    route("requirements", "routes/api/v1/requirements.ts"),
+    route("exam-results", "routes/api/v1/exam-results.ts"),
+    route("clearances", "routes/api/v1/clearances.ts"),
+    route("credentials", "routes/api/v1/credentials.ts"),
+    route("credentials/:credentialId", "routes/api/v1/credential.ts"),
+  ]),
+
+  // Calendar feeds: the address carries its own unguessable token, not the session
+  route("calendar/:token", "routes/calendar-feed.ts"),
+
   // Public verification of a certificate's code (printed on the PDF and in its QR code)
   route("verify/:code", "routes/verify.tsx"),
 
@@ -22,7 +38,7 @@ export default [
   // The signed-in product: the shell (top bar, section strip), each section gated in its layout
   layout("routes/shell.tsx", [
     route("today", "routes/today/index.tsx"),
-    layout("routes/plan/layout.tsx", [route("plan", "routes/plan/index.tsx")]),
+    layout("routes/plan/layout.tsx", [route("plan", "routes/plan/index.tsx"), route("plan/calendar", "routes/plan/calendar.tsx")]),
     layout("routes/exams/layout.tsx", [
       route("exams", "routes/exams/index.tsx"),
       route("exams/:examId/start", "routes/exams/start.tsx"),
@@ -79,6 +95,8 @@ export default [
         route("people/:personId", "routes/admin/person.tsx"),
         route("references", "routes/admin/references.tsx"),
         route("audit", "routes/admin/audit.tsx"),
+        route("api", "routes/admin/api.tsx"),
+        route("roster", "routes/admin/roster.tsx"),
       ]),
     ]),
   ]),

@@ -37,6 +37,7 @@ const OWNED_IN_DELETE_ORDER = [
   schema.requirements,
   schema.files,
   schema.apiTokens,
+  schema.calendarFeeds,
   schema.sessions,
   schema.checklistVersions,
   schema.checklists,

@@ -13,6 +13,12 @@ export type Access =
   | { who: "demo"; note?: string }
   /** Any signed-in person. */
   | { who: "signed-in"; note?: string }
+  /**
+   * The JSON API: a bearer token with this scope (app/api/token.server.ts), never the session.
+   * Without a token every visitor, signed in or not, gets 401 with a JSON error; no role grants
+   * it. POST/PATCH on a read route need the write scope (see the note).
+   */
+  | { who: "token"; scope: "read" | "write"; note?: string }
   /** Signed in and holding this permission; 403 otherwise. */
   | {
       who: "permission";
@@ -28,6 +34,16 @@ export type Access =
 export const ROUTE_ACCESS: Record<string, Access> = {
   "/": { who: "public", note: "redirects to /today or /login" },
   "/healthz": { who: "public" },
+  "/api/v1/openapi.json": { who: "public", note: "the OpenAPI 3.1 document" },
+  "/api/v1/people": { who: "token", scope: "read", note: "API (app/api): 401 JSON without a bearer token, whatever the session" },
+  "/api/v1/people/:personId/status": { who: "token", scope: "read", note: "the status engine's rows for one person of the token's organisation" },
+  "/api/v1/units": { who: "token", scope: "read" },
+  "/api/v1/requirements": { who: "token", scope: "read" },
+  "/api/v1/exam-results": { who: "token", scope: "read" },
+  "/api/v1/clearances": { who: "token", scope: "read" },
+  "/api/v1/credentials": { who: "token", scope: "read", note: "GET needs read; POST needs the write scope" },
+  "/api/v1/credentials/:credentialId": { who: "token", scope: "read", note: "GET needs read; PATCH needs the write scope" },
+  "/calendar/:token": { who: "public", note: "iCalendar feed; the unguessable token in the address is the key; unknown token 404" },
   "/verify/:code": { who: "public", note: "name, what was met, dates and valid / expired / revoked only; an unknown code is a bare 404" },
   "/login": { who: "public" },
   "/login/code": { who: "public" },
@@ -36,6 +52,7 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   "/dev/outbox": { who: "demo" },
   "/today": { who: "signed-in" },
   "/plan": { who: "permission", permission: "section:plan" },
+  "/plan/calendar": { who: "permission", permission: "section:plan", note: "the person's private calendar address; managers also their units' expiries feed" },
   "/exams": { who: "permission", permission: "section:exams", note: "own assignments, exams open to take and own history" },
   "/exams/:examId/start": { who: "permission", permission: "section:exams", note: "404 for an exam not published in the viewer's organisation" },
   "/exams/attempts/:attemptId": { who: "permission", permission: "section:exams", recordScoped: true, note: "404 unless the viewer's own attempt" },
@@ -92,6 +109,8 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   "/admin/people/new": { who: "permission", permission: "section:admin" },
   "/admin/people/:personId": { who: "permission", permission: "section:admin" },
   "/admin/references": { who: "permission", permission: "org:settings" },
+  "/admin/api": { who: "permission", permission: "api-tokens:manage", note: "API tokens (created shown once, revoked) and the API's reference" },
+  "/admin/roster": { who: "permission", permission: "people:manage", note: "HR roster import: preview, then apply on confirmation" },
   "/admin/audit": { who: "permission", permission: "section:admin", note: "the audit chain's state and a check-off's history" },
   "*": { who: "public", note: "our own 404 page" },
 };
@@ -104,12 +123,15 @@ export function mayUse(access: Access, roles: readonly Role[] | null): boolean {
       return true;
     case "signed-in":
       return roles !== null;
+    case "token":
+      // A session never opens the API: only a bearer token does, whatever the roles.
+      return false;
     case "permission":
       return roles !== null && can(roles, access.permission);
   }
 }
 
-/** Roles that may use a route, for the README and reports. */
+/** Roles that may use a route, for the README and reports (none for a token route: a token, not a role, opens it). */
 export function rolesFor(access: Access): Role[] {
   return ROLES.filter((r) => mayUse(access, [r]));
 }

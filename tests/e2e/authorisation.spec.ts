@@ -39,6 +39,8 @@ const PARAMS: Record<string, (org: Identity["org"]) => Promise<string>> = {
   credentialId: (org) => seededCredentialId(org),
   requirementId: (org) => seededRequirementId(org),
   examId: (org) => seededExamId(org),
+  // A made-up calendar address: the feed answers 404 to anyone (the real ones are tested in vitest).
+  token: async () => "no-such-calendar-token",
   attemptId: (org) => seededAttemptId(org),
   certificateId: (org) => seededCertificateId(org),
   code: (org) => seededCertificateCode(org),
@@ -67,7 +69,7 @@ function dataUrl(path: string, routeId: string): string {
   return `${base}?_routes=${encodeURIComponent(routeId)}`;
 }
 
-type Expected = { kind: "any-but-denied" } | { kind: "ok" } | { kind: "ok-or-not-found" } | { kind: "forbidden" } | { kind: "sign-in" };
+type Expected = { kind: "any-but-denied" } | { kind: "ok" } | { kind: "ok-or-not-found" } | { kind: "forbidden" } | { kind: "sign-in" } | { kind: "token" };
 
 function expectedFor(access: Access, roles: Role[] | null): Expected {
   switch (access.who) {
@@ -78,6 +80,10 @@ function expectedFor(access: Access, roles: Role[] | null): Expected {
       return { kind: "ok" };
     case "signed-in":
       return roles ? { kind: "ok" } : { kind: "sign-in" };
+    case "token":
+      // The JSON API: no session opens it, so anonymous and every role alike get 401 without a
+      // bearer token (the suite sends none; tests/integration/api.test.ts covers the tokens).
+      return { kind: "token" };
     case "permission":
       if (!roles) return { kind: "sign-in" };
       if (!can(roles, access.permission)) return { kind: "forbidden" };
@@ -109,6 +115,8 @@ function judge(expected: Expected, answer: Answer, asData: boolean, path: string
       return null;
     case "forbidden":
       return status === 403 ? null : `expected 403, got ${status}${location ? ` → ${location}` : ""}`;
+    case "token":
+      return tokenRefusal(status, body, asData);
     case "sign-in":
       if (asData) {
         // Single fetch answers a redirect with 202 and the target in the body.
@@ -116,6 +124,24 @@ function judge(expected: Expected, answer: Answer, asData: boolean, path: string
       }
       return status === 302 && location === signInTarget ? null : `expected 302 → ${signInTarget}, got ${status}${location ? ` → ${location}` : ""}`;
   }
+}
+
+/**
+ * A token route asked without a bearer token: 401 with the stable code missing_token. A document
+ * request gets the JSON error itself; a data request gets the same object in React Router's
+ * single-fetch encoding (turbo-stream), still with status 401 and the code in the body.
+ */
+function tokenRefusal(status: number, body: string, asData: boolean): string | null {
+  if (status !== 401) return `expected 401 (no bearer token), got ${status} ${body.slice(0, 120)}`;
+  if (!asData) {
+    try {
+      const parsed = JSON.parse(body) as { error?: { code?: string } };
+      return parsed.error?.code === "missing_token" ? null : `401 without the JSON error code missing_token: ${body.slice(0, 120)}`;
+    } catch {
+      return `401 whose body is not JSON: ${body.slice(0, 120)}`;
+    }
+  }
+  return body.includes('"missing_token"') ? null : `401 without the code missing_token: ${body.slice(0, 120)}`;
 }
 
 async function ask(api: APIRequestContext, url: string, cookie?: string): Promise<Answer> {
@@ -218,7 +244,7 @@ test("every action refuses the identities the table denies", async () => {
       if (!access || !manifest[route.id]?.hasAction) continue;
       for (const me of identities) {
         const expected = expectedFor(access, me.roles);
-        if (expected.kind !== "forbidden" && expected.kind !== "sign-in") continue;
+        if (expected.kind !== "forbidden" && expected.kind !== "sign-in" && expected.kind !== "token") continue;
         const path = await concretePath(route.pattern, me.org);
         // An index route's action is addressed with ?index (React Router's convention).
         const index = manifest[route.id]?.index ? "?index" : "";
@@ -236,7 +262,9 @@ test("every action refuses the identities the table denies", async () => {
           const body = await response.text();
           const location = response.headers()["location"] ?? "";
           const ok =
-            expected.kind === "forbidden"
+            expected.kind === "token"
+              ? tokenRefusal(status, body, kind === "data") === null
+              : expected.kind === "forbidden"
               ? status === 403
               : kind === "document"
                 ? status === 302 && location.startsWith("/login?next=")

@@ -5,3 +5,4 @@ export * from "./exams";
 export * from "./checkoffs";
 export * from "./compliance";
 export * from "./audit";
+export * from "./calendar";

@@ -9,8 +9,10 @@ const TABS: SectionTab[] = [
   { to: "/admin", label: "Organisation", end: true },
   { to: "/admin/units", label: "Units", end: false },
   { to: "/admin/people", label: "People", end: false },
+  { to: "/admin/roster", label: "Roster import", end: false },
   { to: "/admin/references", label: "Regulatory references", end: false },
   { to: "/admin/audit", label: "Audit trail", end: false },
+  { to: "/admin/api", label: "API", end: false },
 ];
 
 export default function AdminLayout() {

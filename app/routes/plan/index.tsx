@@ -1,4 +1,4 @@
-import { useLoaderData } from "react-router";
+import { Link, useLoaderData } from "react-router";
 import { notFound, requireViewer } from "~/auth/gate.server";
 import { CautionFooter } from "~/components/caution";
 import { CalendarDate } from "~/components/calendar-date";
@@ -37,6 +37,7 @@ export default function MyPlan() {
         Your exams, check-offs and credentials, soonest first — anything overdue is at the top. Today is{" "}
         <CalendarDate value={today} long /> ({timeZone}). “Due soon” means within {reminderDays} days.
       </p>
+      <p className="mt-2"><Link to="/plan/calendar" className="underline">Put these dates in your calendar app</Link></p>
 
       {orientation.length > 0 ? (
         <div className="mt-6">

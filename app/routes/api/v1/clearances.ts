@@ -1,0 +1,22 @@
+import { authenticate } from "~/api/token.server";
+import { listClearancesPage } from "~/api/data.server";
+import { handle, pageArgs, parseQuery } from "~/api/handler.server";
+import { json, methodNotAllowed } from "~/api/respond.server";
+import { PageQuery } from "~/api/schemas";
+import type { Route } from "./+types/clearances";
+
+// Clearances are derived by the clearance engine; this answers what is stored.
+export async function loader({ request }: Route.LoaderArgs) {
+  return handle(async () => {
+    const caller = await authenticate(request, "read");
+    return json(await listClearancesPage(caller.orgId, pageArgs(parseQuery(request, PageQuery))));
+  });
+}
+
+/** Other methods: a token first (401 without one, as for GET), then 405. */
+export async function action({ request }: Route.ActionArgs) {
+  return handle(async () => {
+    await authenticate(request, "read");
+    return methodNotAllowed(["GET"]);
+  });
+}

@@ -1,0 +1,22 @@
+import { authenticate } from "~/api/token.server";
+import { listExamResultsPage } from "~/api/data.server";
+import { handle, pageArgs, parseQuery } from "~/api/handler.server";
+import { json, methodNotAllowed } from "~/api/respond.server";
+import { ExamResultsQuery } from "~/api/schemas";
+import type { Route } from "./+types/exam-results";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  return handle(async () => {
+    const caller = await authenticate(request, "read");
+    const query = parseQuery(request, ExamResultsQuery);
+    return json(await listExamResultsPage(caller.orgId, { examId: query.examId, personId: query.personId }, pageArgs(query)));
+  });
+}
+
+/** Other methods: a token first (401 without one, as for GET), then 405. */
+export async function action({ request }: Route.ActionArgs) {
+  return handle(async () => {
+    await authenticate(request, "read");
+    return methodNotAllowed(["GET"]);
+  });
+}
