@@ -1,7 +1,24 @@
 /** The plumbing every API route shares: thrown JSON answers, queries, cursors and bodies. */
 import type { z } from "zod";
 import { decodeCursor, type PageArgs } from "./data.server";
+import type { MiddlewareFunction } from "react-router";
 import { apiError, methodNotAllowed, validationError } from "./respond.server";
+import { bearerTokenOf } from "./token.server";
+
+/**
+ * Route middleware of every token route: a request without a bearer token is refused with the
+ * JSON 401 before any loader runs — also a client data request that names only the root route,
+ * which would otherwise answer with the root's (empty) data.
+ */
+export const requireBearer: MiddlewareFunction<Response> = async ({ request }, next) => {
+  try {
+    bearerTokenOf(request);
+  } catch (thrown) {
+    if (thrown instanceof Response) return thrown;
+    throw thrown;
+  }
+  return next();
+};
 
 /** Runs a route's work; a JSON answer thrown on the way (401, 400…) is returned as the answer. */
 export async function handle(work: () => Promise<Response>): Promise<Response> {

@@ -52,7 +52,11 @@ export function endOfDayIn(timeZone: string, isoDate: string): Date {
  * call may not go ahead: a token in the address (400), none or a bad one (401), a scope the
  * token lacks (403), too many calls (429 with Retry-After). A session cookie is never looked at.
  */
-export async function authenticate(request: Request, scope: ApiScope, now: Date = new Date()): Promise<ApiCaller> {
+/**
+ * The checks that need no database: no token in the address, and a bearer token in the header.
+ * Returns the token. Thrown answers are JSON (400 token_in_query, 401 missing_token).
+ */
+export function bearerTokenOf(request: Request): string {
   const url = new URL(request.url);
   const inQuery = QUERY_TOKEN_PARAMS.find((p) => url.searchParams.has(p));
   if (inQuery) {
@@ -62,12 +66,17 @@ export async function authenticate(request: Request, scope: ApiScope, now: Date 
   const header = request.headers.get("Authorization") ?? "";
   const match = /^Bearer\s+(\S+)\s*$/i.exec(header);
   if (!match) throw apiError(401, "missing_token", 'Send an API token as "Authorization: Bearer <token>". An admin creates tokens under Admin → API.', { headers: challenge });
+  return match[1];
+}
+
+export async function authenticate(request: Request, scope: ApiScope, now: Date = new Date()): Promise<ApiCaller> {
+  const token = bearerTokenOf(request);
   const { db, write } = await database();
   const [row] = await db
     .select({ token: apiTokens, timeZone: organisations.timeZone })
     .from(apiTokens)
     .innerJoin(organisations, eq(organisations.id, apiTokens.orgId))
-    .where(eq(apiTokens.tokenHash, hashToken(match[1])));
+    .where(eq(apiTokens.tokenHash, hashToken(token)));
   const bad = { headers: { "WWW-Authenticate": 'Bearer realm="tidemark-api", error="invalid_token"' } };
   if (!row) throw apiError(401, "invalid_token", "This token is not known. Check it was copied whole.", bad);
   if (row.token.revokedAt) throw apiError(401, "token_revoked", "This token was revoked. Ask an admin for a new one.", bad);

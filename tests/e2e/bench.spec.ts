@@ -157,6 +157,8 @@ test("an exercise loads with one click: the high-pressure limit cuts the breath 
 });
 
 test("axe: the Bench page, running, with a refused field, and with an exercise and an alarm", async ({ newGuardedPage, signInAs }) => {
+  // Four full-page scans of the largest page, each several seconds on a busy 2-core machine.
+  test.setTimeout(90_000);
   const page = await newGuardedPage();
   await signInAs("therapist", page.context());
   await openBench(page);

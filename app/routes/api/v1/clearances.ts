@@ -1,9 +1,11 @@
 import { authenticate } from "~/api/token.server";
 import { listClearancesPage } from "~/api/data.server";
-import { handle, pageArgs, parseQuery } from "~/api/handler.server";
+import { handle, pageArgs, parseQuery, requireBearer } from "~/api/handler.server";
 import { json, methodNotAllowed } from "~/api/respond.server";
 import { PageQuery } from "~/api/schemas";
 import type { Route } from "./+types/clearances";
+
+export const middleware: Route.MiddlewareFunction[] = [requireBearer];
 
 // Clearances are derived by the clearance engine; this answers what is stored.
 export async function loader({ request }: Route.LoaderArgs) {

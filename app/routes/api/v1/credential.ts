@@ -1,9 +1,11 @@
 import { authenticate } from "~/api/token.server";
 import { getCredential, updateCredentialByToken } from "~/api/data.server";
-import { handle, readJsonObject, refuseOtherMethods } from "~/api/handler.server";
+import { handle, readJsonObject, refuseOtherMethods, requireBearer } from "~/api/handler.server";
 import { apiError, json, notFoundError, validationError } from "~/api/respond.server";
 import { CREDENTIAL_PATCHABLE, parseCredentialBody } from "~/api/schemas";
 import type { Route } from "./+types/credential";
+
+export const middleware: Route.MiddlewareFunction[] = [requireBearer];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   return handle(async () => {

@@ -1,9 +1,11 @@
 import { authenticate } from "~/api/token.server";
 import { createCredentialByToken, listCredentialsPage } from "~/api/data.server";
-import { handle, pageArgs, parseQuery, readJsonObject, refuseOtherMethods } from "~/api/handler.server";
+import { handle, pageArgs, parseQuery, readJsonObject, refuseOtherMethods, requireBearer } from "~/api/handler.server";
 import { apiError, json, validationError } from "~/api/respond.server";
 import { CredentialsQuery, parseCredentialBody } from "~/api/schemas";
 import type { Route } from "./+types/credentials";
+
+export const middleware: Route.MiddlewareFunction[] = [requireBearer];
 
 export async function loader({ request }: Route.LoaderArgs) {
   return handle(async () => {

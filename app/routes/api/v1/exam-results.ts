@@ -1,9 +1,11 @@
 import { authenticate } from "~/api/token.server";
 import { listExamResultsPage } from "~/api/data.server";
-import { handle, pageArgs, parseQuery } from "~/api/handler.server";
+import { handle, pageArgs, parseQuery, requireBearer } from "~/api/handler.server";
 import { json, methodNotAllowed } from "~/api/respond.server";
 import { ExamResultsQuery } from "~/api/schemas";
 import type { Route } from "./+types/exam-results";
+
+export const middleware: Route.MiddlewareFunction[] = [requireBearer];
 
 export async function loader({ request }: Route.LoaderArgs) {
   return handle(async () => {

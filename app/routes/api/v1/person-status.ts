@@ -1,8 +1,10 @@
 import { authenticate } from "~/api/token.server";
 import { personStatus } from "~/api/data.server";
-import { handle } from "~/api/handler.server";
+import { handle, requireBearer } from "~/api/handler.server";
 import { json, methodNotAllowed, notFoundError } from "~/api/respond.server";
 import type { Route } from "./+types/person-status";
+
+export const middleware: Route.MiddlewareFunction[] = [requireBearer];
 
 export async function loader({ request, params }: Route.LoaderArgs) {
   return handle(async () => {
