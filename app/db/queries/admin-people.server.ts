@@ -7,7 +7,7 @@ import { and, asc, count, eq, exists, isNull, ne, or, sql, type SQL } from "driz
 import { ROLES, isRole, type Role } from "~/auth/roles";
 import type { NewPersonValues, PeopleFilter, PersonChecks, PersonValues } from "~/routes/admin/schemas";
 import { recordAudit } from "../audit.server";
-import { database } from "../client.server";
+import { database, type Tx } from "../client.server";
 import { people, personRoles, personUnits, sessions, units, type Person } from "../schema";
 import { fieldChanges } from "./field-changes";
 import { uniqueViolation } from "./unique-violation";
@@ -240,6 +240,37 @@ export async function updatePerson(
 }
 
 /**
+ * Inside a write: sets a person active or not and audits it; deactivating also ends their open
+ * sessions. `source` marks where the change came from (e.g. "roster"). Returns sessions ended.
+ */
+export async function applyActive(tx: Tx, orgId: string, actorId: string, personId: string, active: boolean, now: Date, source?: string): Promise<number> {
+  await tx.update(people).set({ active, updatedAt: now }).where(and(eq(people.orgId, orgId), eq(people.id, personId)));
+  let sessionsEnded = 0;
+  if (!active) {
+    const ended = await tx
+      .update(sessions)
+      .set({ endedAt: now })
+      .where(and(eq(sessions.orgId, orgId), eq(sessions.personId, personId), isNull(sessions.endedAt)))
+      .returning({ id: sessions.id });
+    sessionsEnded = ended.length;
+  }
+  const from = source ? { source } : {};
+  await recordAudit(
+    tx,
+    {
+      orgId,
+      actorId,
+      action: active ? "person.reactivated" : "person.deactivated",
+      entityType: "person",
+      entityId: personId,
+      detail: active ? { active: { before: false, after: true }, ...from } : { active: { before: true, after: false }, sessionsEnded, ...from },
+    },
+    now,
+  );
+  return sessionsEnded;
+}
+
+/**
  * Deactivates or reactivates a person. Deactivating also ends every open session of theirs
  * (sessions.endedAt), so a browser still signed in as them stops working at its next request.
  */
@@ -255,28 +286,7 @@ export async function setPersonActive(
     const [person] = await tx.select().from(people).where(and(eq(people.orgId, orgId), eq(people.id, personId)));
     if (!person) throw new Error(`person ${personId} not in organisation ${orgId}`);
     if (person.active === active) return { changed: false, sessionsEnded: 0 };
-    await tx.update(people).set({ active, updatedAt: now }).where(and(eq(people.orgId, orgId), eq(people.id, personId)));
-    let sessionsEnded = 0;
-    if (!active) {
-      const ended = await tx
-        .update(sessions)
-        .set({ endedAt: now })
-        .where(and(eq(sessions.orgId, orgId), eq(sessions.personId, personId), isNull(sessions.endedAt)))
-        .returning({ id: sessions.id });
-      sessionsEnded = ended.length;
-    }
-    await recordAudit(
-      tx,
-      {
-        orgId,
-        actorId,
-        action: active ? "person.reactivated" : "person.deactivated",
-        entityType: "person",
-        entityId: personId,
-        detail: active ? { active: { before: false, after: true } } : { active: { before: true, after: false }, sessionsEnded },
-      },
-      now,
-    );
+    const sessionsEnded = await applyActive(tx, orgId, actorId, personId, active, now);
     return { changed: true, sessionsEnded };
   });
 }

@@ -11,13 +11,14 @@
  * nothing is written and the admin previews again. So "apply" writes exactly what was shown.
  */
 import { createHash } from "node:crypto";
-import { and, eq, inArray, isNull, ne } from "drizzle-orm";
+import { and, eq, inArray, ne } from "drizzle-orm";
 import { isRole } from "~/auth/roles";
 import { parseRoster, type RosterProblem, type RosterUnit, columnLetter } from "~/domain/roster/parse";
 import { planCounts, planIsEmpty, planKey, planRoster, type CurrentPerson, type RosterPlan } from "~/domain/roster/plan";
 import { recordAudit } from "../audit.server";
 import { database, type DbOrTx, type Tx } from "../client.server";
-import { people, personRoles, sessions, units } from "../schema";
+import { applyActive } from "./admin-people.server";
+import { people, personRoles, units } from "../schema";
 import { uniqueViolation } from "./unique-violation";
 
 export type RosterPreview =
@@ -131,14 +132,14 @@ export async function applyRoster(
           await tx.update(people).set({ ...set, updatedAt: now }).where(and(eq(people.orgId, orgId), eq(people.id, c.personId)));
           await recordAudit(tx, { orgId, actorId, action: "person.updated", entityType: "person", entityId: c.personId, detail: { changed: fields, source: "roster" } }, now);
         }
-        if (active) await setActive(tx, orgId, actorId, c.personId, active.after === true, now);
+        if (active) await applyActive(tx, orgId, actorId, c.personId, active.after === true, now, "roster");
         for (const role of c.rolesAdded) {
           await tx.insert(personRoles).values({ personId: c.personId, orgId, role, grantedBy: actorId, createdAt: now });
           await recordAudit(tx, { orgId, actorId, action: "role.granted", entityType: "person", entityId: c.personId, detail: { role, source: "roster" } }, now);
         }
       }
 
-      for (const d of plan.deactivated) await setActive(tx, orgId, actorId, d.personId, false, now);
+      for (const d of plan.deactivated) await applyActive(tx, orgId, actorId, d.personId, false, now, "roster");
 
       await recordAudit(
         tx,
@@ -162,28 +163,3 @@ export async function applyRoster(
   }
 }
 
-/** As setPersonActive (admin-people.server.ts), inside the import's transaction: deactivating also ends open sessions. */
-async function setActive(tx: Tx, orgId: string, actorId: string, personId: string, active: boolean, now: Date) {
-  await tx.update(people).set({ active, updatedAt: now }).where(and(eq(people.orgId, orgId), eq(people.id, personId)));
-  let sessionsEnded = 0;
-  if (!active) {
-    const ended = await tx
-      .update(sessions)
-      .set({ endedAt: now })
-      .where(and(eq(sessions.orgId, orgId), eq(sessions.personId, personId), isNull(sessions.endedAt)))
-      .returning({ id: sessions.id });
-    sessionsEnded = ended.length;
-  }
-  await recordAudit(
-    tx,
-    {
-      orgId,
-      actorId,
-      action: active ? "person.reactivated" : "person.deactivated",
-      entityType: "person",
-      entityId: personId,
-      detail: active ? { active: { before: false, after: true }, source: "roster" } : { active: { before: true, after: false }, sessionsEnded, source: "roster" },
-    },
-    now,
-  );
-}
