@@ -38,7 +38,11 @@ export default [
   // The signed-in product: the shell (top bar, section strip), each section gated in its layout
   layout("routes/shell.tsx", [
     route("today", "routes/today/index.tsx"),
-    layout("routes/plan/layout.tsx", [route("plan", "routes/plan/index.tsx"), route("plan/calendar", "routes/plan/calendar.tsx")]),
+    layout("routes/plan/layout.tsx", [
+      route("plan", "routes/plan/index.tsx"),
+      route("plan/calendar", "routes/plan/calendar.tsx"),
+      route("plan/reminders", "routes/plan/reminders.tsx"),
+    ]),
     layout("routes/exams/layout.tsx", [
       route("exams", "routes/exams/index.tsx"),
       route("exams/:examId/start", "routes/exams/start.tsx"),
@@ -54,6 +58,21 @@ export default [
       route("team/matrix/export", "routes/team/matrix-export.ts"),
       route("team/people/:personId/requirements/:requirementId", "routes/team/cell.tsx"),
       route("team/accommodations", "routes/team/accommodations.tsx"),
+    ]),
+    layout("routes/clearance/layout.tsx", [route("clearance", "routes/clearance/index.tsx")]),
+    layout("routes/reports/layout.tsx", [
+      route("reports", "routes/reports/index.tsx"),
+      route("reports/compliance", "routes/reports/compliance.tsx"),
+      route("reports/compliance.csv", "routes/reports/compliance-csv.ts"),
+      route("reports/compliance.pdf", "routes/reports/compliance-pdf.ts"),
+      route("reports/expiries", "routes/reports/expiries.tsx"),
+      route("reports/expiries.csv", "routes/reports/expiries-csv.ts"),
+      route("reports/expiries.pdf", "routes/reports/expiries-pdf.ts"),
+      route("reports/completions", "routes/reports/completions.tsx"),
+      route("reports/completions.csv", "routes/reports/completions-csv.ts"),
+      route("reports/completions.pdf", "routes/reports/completions-pdf.ts"),
+      route("reports/packet", "routes/reports/packet.tsx"),
+      route("reports/packet.pdf", "routes/reports/packet-pdf.ts"),
     ]),
     layout("routes/credentials/layout.tsx", [
       route("credentials", "routes/credentials/index.tsx"),
@@ -97,6 +116,7 @@ export default [
         route("audit", "routes/admin/audit.tsx"),
         route("api", "routes/admin/api.tsx"),
         route("roster", "routes/admin/roster.tsx"),
+        route("reminders", "routes/admin/reminders.tsx"),
       ]),
     ]),
   ]),

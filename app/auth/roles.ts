@@ -121,10 +121,10 @@ export const SECTIONS: readonly Section[] = [
   { id: "bench", label: "Bench", path: "/bench", permission: "section:bench", built: true },
   { id: "checkoffs", label: "Check-offs", path: "/checkoffs", permission: "section:checkoffs", built: true },
   { id: "credentials", label: "Credentials", path: "/credentials", permission: "section:credentials", built: true },
-  { id: "clearance", label: "Clearance board", path: "/clearance", permission: "section:clearance", built: false },
+  { id: "clearance", label: "Clearance board", path: "/clearance", permission: "section:clearance", built: true },
   { id: "bank", label: "Bank", path: "/bank", permission: "section:bank", built: true },
   { id: "team", label: "Team", path: "/team", permission: "section:team", built: true },
-  { id: "reports", label: "Reports", path: "/reports", permission: "section:reports", built: false },
+  { id: "reports", label: "Reports", path: "/reports", permission: "section:reports", built: true },
   { id: "admin", label: "Admin", path: "/admin", permission: "section:admin", built: true },
 ];
 
