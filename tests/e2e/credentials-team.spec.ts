@@ -137,7 +137,7 @@ const SCANS: { name: string; who: DemoKey; path: () => Promise<string> | string 
 
 for (const scan of SCANS) {
   test(`axe: ${scan.name}`, async ({ newGuardedPage, signInAs, consoleGuard }) => {
-    // A matrix page is 50 people × every requirement: axe checks each of its cells.
+    // A matrix page is 25 people × every requirement: axe checks each of its cells.
     test.setTimeout(60_000);
     const page = await newGuardedPage();
     await signInAs(scan.who, page.context());

@@ -141,12 +141,26 @@ describe("the Team matrix table", () => {
       "/team/people/p-ada/requirements/req-vent → Due soon, due 20 Dec 2026",
       "/team/people/p-ada/requirements/req-lic → Not started",
     ]);
-    // Every mark is a shape from the one sprite on the page, hidden from assistive technology.
-    expect(html.match(/<symbol id="status-shape-[a-z-]+"/g)).toHaveLength(5);
-    expect(html.match(/<svg width="14" height="14" aria-hidden="true"><use href="#status-shape-(lapsed|waived|current|due-soon|not-started)"><\/use><\/svg>/g)).toHaveLength(5);
+    // No cell carries a drawing: the stylesheet draws each status's shape (status-mark.test.ts).
+    expect(html).not.toContain("<svg");
     expect(html).toContain(
       '<td data-status="not-applicable"><span aria-hidden="true">—</span><span class="sr-only">Does not apply</span></td>',
     );
+  });
+
+  // The rows are written as markup (matrixRowHtml): a hostile name or unit must arrive as text.
+  it("shows a hostile name and unit as text, never as markup", () => {
+    const hostile = "<img src=x onerror=alert(1)> & \"quoted\" 'single' \u202Eevil";
+    const html = render(
+      view("", {
+        rows: [{ id: "p-x", name: hostile, homeUnit: "<b>Unit</b>", cells: encodeCells([["lapsed", "2026-04-30", "v", null], null, null]) }],
+        matching: 1,
+      }),
+    );
+    expect(html).not.toContain("<img");
+    expect(html).not.toContain("<b>Unit");
+    expect(html).toContain("&lt;img src=x onerror=alert(1)&gt; &amp; &quot;quoted&quot; &#39;single&#39; \u202Eevil");
+    expect(html).toContain("&lt;b&gt;Unit&lt;/b&gt;");
   });
 
   // WAI-ARIA 1.2, "aria-sort" (W3C Recommendation, 2023): the sortable headers say how they are

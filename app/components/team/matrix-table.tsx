@@ -18,11 +18,12 @@ import {
   type SortingState,
   type Updater,
 } from "@tanstack/react-table";
+import escapeHtml from "escape-html";
 import { useMemo, type MouseEvent } from "react";
 import { useNavigate } from "react-router";
 import { formatCalendarDate } from "~/components/calendar-date";
 import { Button } from "~/components/ui/button";
-import { SpriteShape, STATUS_WORDS, StatusShapeSprite } from "~/components/ui/status-mark";
+import { STATUS_WORDS } from "~/components/ui/status-mark";
 import {
   decodeCells,
   MATRIX_PAGE_SIZE,
@@ -213,30 +214,32 @@ export function useMatrixTable(
 }
 
 /**
- * One status cell. Plain markup, styled by `.matrix-cells` in app/styles/app.css and drawn from
- * the shape sprite: a page holds 2,000 of them, and every byte and component here is paid 2,000
- * times on each document request. The link's name is the status and its date; the person and
- * the requirement are the cell's row and column headers (WCAG 2.2, 2.4.4 Link Purpose (In
- * Context): a link's purpose may come from its table cell's headers).
+ * One row of the matrix as markup: the person (row header), the home unit and one status cell
+ * per requirement. A page holds up to 25 × 40 = 1,000 cells, and as React elements (five per
+ * cell) they were most of the cost of each document request, so the row is written
+ * as one string, text escaped with escape-html, and handed to React whole; the same function runs
+ * on the server and in the browser, so hydration sees the same markup. Cells are styled once by
+ * `.matrix-cells` in app/styles/app.css, which also draws each status's shape (a CSS image keyed
+ * on `data-status`, so no cell carries its own drawing).
+ *
+ * A cell's link says the status and its date; the person and the requirement are its row and
+ * column headers (WCAG 2.2, 2.4.4 Link Purpose (In Context): a link's purpose may come from its
+ * table cell's headers).
  */
-function StatusCell({ personId, requirementId, cell }: { personId: string; requirementId: string; cell: CellTuple | null }) {
-  if (!cell)
-    return (
-      <td data-status="not-applicable">
-        <span aria-hidden="true">—</span>
-        <span className="sr-only">Does not apply</span>
-      </td>
-    );
-  const when = cellWhen(cell);
-  return (
-    <td data-status={cell[0]}>
-      <a href={cellPath(personId, requirementId)}>
-        <SpriteShape status={cell[0]} />
-        {STATUS_WORDS[cell[0]]}
-        {when ? <span className="sr-only">{`, ${when}`}</span> : null}
-      </a>
-    </td>
-  );
+export function matrixRowHtml(person: MatrixPerson, requirementIds: readonly string[]): string {
+  let html = `<th scope="row" class="px-3 py-2 font-semibold whitespace-nowrap">${escapeHtml(person.name)}</th><td class="px-3 py-2 whitespace-nowrap">${person.homeUnit ? escapeHtml(person.homeUnit) : "—"}</td>`;
+  requirementIds.forEach((requirementId, index) => {
+    const cell = person.cells[index];
+    const status = cell?.[0];
+    if (!cell || !status || !(status in STATUS_WORDS)) {
+      html += '<td data-status="not-applicable"><span aria-hidden="true">—</span><span class="sr-only">Does not apply</span></td>';
+      return;
+    }
+    const when = cellWhen(cell);
+    const href = escapeHtml(cellPath(encodeURIComponent(person.id), encodeURIComponent(requirementId)));
+    html += `<td data-status="${status}"><a href="${href}">${STATUS_WORDS[status]}${when ? `<span class="sr-only">, ${when}</span>` : ""}</a></td>`;
+  });
+  return html;
 }
 
 /**
@@ -270,7 +273,6 @@ export function MatrixTable({
   const requirementIds = view.columns.map((c) => c.id);
   return (
     <>
-      <StatusShapeSprite />
       <div className="overflow-x-auto rounded-lg border border-rule bg-card">
         <table
           className="matrix-cells border-collapse text-left text-sm"
@@ -299,24 +301,14 @@ export function MatrixTable({
           {/* The links inside handle the keyboard; this only adds the way back to a plain click. */}
           {/* eslint-disable-next-line jsx-a11y/click-events-have-key-events, jsx-a11y/no-noninteractive-element-interactions */}
           <tbody onClick={openCell}>
-            {table.getRowModel().rows.map((row) => {
-              const person = row.original;
-              return (
-                <tr
-                  key={row.id}
-                  className="border-b border-rule align-top"
-                  data-testid="matrix-row"
-                >
-                  <th scope="row" className="px-3 py-2 font-semibold whitespace-nowrap">
-                    {person.name}
-                  </th>
-                  <td className="px-3 py-2 whitespace-nowrap">{person.homeUnit ?? "—"}</td>
-                  {requirementIds.map((requirementId, index) => (
-                    <StatusCell key={requirementId} personId={person.id} requirementId={requirementId} cell={person.cells[index] ?? null} />
-                  ))}
-                </tr>
-              );
-            })}
+            {table.getRowModel().rows.map((row) => (
+              <tr
+                key={row.id}
+                className="border-b border-rule align-top"
+                data-testid="matrix-row"
+                dangerouslySetInnerHTML={{ __html: matrixRowHtml(row.original, requirementIds) }}
+              />
+            ))}
           </tbody>
         </table>
       </div>

@@ -13,71 +13,32 @@ export const STATUS_WORDS: Record<Status, string> = {
   waived: "Waived",
 };
 
-/** The drawing of each status's shape on a 16 × 16 grid, shared by the inline marks and the sprite. */
-function ShapeDrawing({ status }: { status: Status }) {
-  switch (status) {
-    case "current": // filled circle
-      return <circle cx="8" cy="8" r="6.5" fill="#0F5C57" />;
-    case "due-soon": // circle with a notch
-      return (
-        <>
-          <path d="M8 1.5a6.5 6.5 0 1 0 6.5 6.5H8Z" fill="#B8432A" />
-          <circle cx="8" cy="8" r="6.5" fill="none" stroke="#B8432A" strokeWidth="1.2" />
-        </>
-      );
-    case "lapsed": // open circle with a bar
-      return (
-        <>
-          <circle cx="8" cy="8" r="6" fill="none" stroke="#B8432A" strokeWidth="2" />
-          <rect x="3.5" y="7" width="9" height="2" fill="#B8432A" />
-        </>
-      );
-    case "not-started": // dotted ring
-      return <circle cx="8" cy="8" r="6" fill="none" stroke="#5B6B68" strokeWidth="2" strokeDasharray="1.5 2.2" />;
-    case "waived": // circle with a slash
-      return (
-        <>
-          <circle cx="8" cy="8" r="6" fill="none" stroke="#5B6B68" strokeWidth="1.6" />
-          <path d="M3.8 12.2 12.2 3.8" stroke="#5B6B68" strokeWidth="1.6" />
-        </>
-      );
-  }
+/**
+ * Each status's shape on a 16 × 16 grid, as SVG markup: drawn inline by StatusMark, and as CSS
+ * images in the Team matrix (app/styles/app.css, `.matrix-cells`; status-mark.test.ts checks the
+ * stylesheet draws exactly these).
+ */
+export const STATUS_SHAPES: Record<Status, string> = {
+  // filled circle
+  current: '<circle cx="8" cy="8" r="6.5" fill="#0F5C57"/>',
+  // circle with a notch
+  "due-soon": '<path d="M8 1.5a6.5 6.5 0 1 0 6.5 6.5H8Z" fill="#B8432A"/><circle cx="8" cy="8" r="6.5" fill="none" stroke="#B8432A" stroke-width="1.2"/>',
+  // open circle with a bar
+  lapsed: '<circle cx="8" cy="8" r="6" fill="none" stroke="#B8432A" stroke-width="2"/><rect x="3.5" y="7" width="9" height="2" fill="#B8432A"/>',
+  // dotted ring
+  "not-started": '<circle cx="8" cy="8" r="6" fill="none" stroke="#5B6B68" stroke-width="2" stroke-dasharray="1.5 2.2"/>',
+  // circle with a slash
+  waived: '<circle cx="8" cy="8" r="6" fill="none" stroke="#5B6B68" stroke-width="1.6"/><path d="M3.8 12.2 12.2 3.8" stroke="#5B6B68" stroke-width="1.6"/>',
+};
+
+/** A status's shape as a standalone SVG data URI, as the stylesheet uses it. */
+export function statusShapeDataUri(status: Status): string {
+  const svg = `<svg xmlns="http://www.w3.org/2000/svg" width="14" height="14" viewBox="0 0 16 16">${STATUS_SHAPES[status]}</svg>`;
+  return `data:image/svg+xml,${encodeURIComponent(svg)}`;
 }
 
 function Shape({ status }: { status: Status }) {
-  return (
-    <svg width={14} height={14} viewBox="0 0 16 16" aria-hidden className="shrink-0">
-      <ShapeDrawing status={status} />
-    </svg>
-  );
-}
-
-const symbolId = (status: Status) => `status-shape-${status}`;
-
-/**
- * The five shapes once, as SVG symbols, for a page that draws thousands of marks (the Team
- * matrix): each mark is then a two-element `<svg><use/></svg>` (SVG 2, "The use element",
- * W3C 2018) instead of its own drawing. Put it once in the page, before the marks.
- */
-export function StatusShapeSprite() {
-  return (
-    <svg aria-hidden width="0" height="0" className="absolute">
-      {STATUSES.map((status) => (
-        <symbol key={status} id={symbolId(status)} viewBox="0 0 16 16">
-          <ShapeDrawing status={status} />
-        </symbol>
-      ))}
-    </svg>
-  );
-}
-
-/** A status's shape drawn from the sprite (StatusShapeSprite must be on the page). */
-export function SpriteShape({ status }: { status: Status }) {
-  return (
-    <svg width="14" height="14" aria-hidden>
-      <use href={`#${symbolId(status)}`} />
-    </svg>
-  );
+  return <svg width={14} height={14} viewBox="0 0 16 16" aria-hidden className="shrink-0" dangerouslySetInnerHTML={{ __html: STATUS_SHAPES[status] }} />;
 }
 
 export function StatusMark({ status, detail }: { status: Status; detail?: string }) {

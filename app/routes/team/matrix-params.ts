@@ -12,8 +12,8 @@ export type CellTuple = [Status, string | null, "d" | "v", string | null];
 
 /**
  * A row's cells travel as one string ("status,date,meaning,waived" per cell, ";" between cells,
- * "" where the requirement does not apply): 50 strings instead of 2,000 small arrays keep the
- * streamed response cheap to encode for 50 people × 40 requirements.
+ * "" where the requirement does not apply): 25 strings instead of 1,000 small arrays keep the
+ * streamed response cheap to encode for 25 people × 40 requirements.
  */
 export function encodeCells(cells: readonly (CellTuple | null)[]): string {
   return cells.map((c) => (c ? c.map((v) => v ?? "").join(",") : "")).join(";");
@@ -27,8 +27,8 @@ export function decodeCells(encoded: string): (CellTuple | null)[] {
   });
 }
 
-/** Rows per page of the matrix. */
-export const MATRIX_PAGE_SIZE = 50;
+/** Rows per page of the matrix: 25 people × every requirement (up to ~1,000 cells) is more than a screen, and keeps each page light to send and to read with a screen reader. */
+export const MATRIX_PAGE_SIZE = 25;
 
 const MatrixSearchSchema = z.object({
   q: z.string().trim().max(100).catch(""),

@@ -51,7 +51,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     units: matrix.units,
     compliance: matrix.compliance,
     expiries: matrix.expiries,
-    // Compact cells aligned with the columns: 50 people × 40 requirements stay a small response.
+    // Compact cells aligned with the columns: 25 people × 40 requirements stay a small response.
     rows: matching
       .slice((page - 1) * MATRIX_PAGE_SIZE, page * MATRIX_PAGE_SIZE)
       .map((p) => ({
