@@ -10,10 +10,11 @@ import {
 } from "react-router";
 import { sessionMiddleware } from "~/auth/gate.server";
 import { ErrorPage } from "~/components/error-page";
+import { backgroundJobs } from "~/jobs.server";
 import type { Route } from "./+types/root";
 import "./styles/app.css";
 
-export const middleware: Route.MiddlewareFunction[] = [sessionMiddleware];
+export const middleware: Route.MiddlewareFunction[] = [backgroundJobs, sessionMiddleware];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 

@@ -30,6 +30,8 @@ const OWNED_IN_DELETE_ORDER = [
   schema.clearances,
   schema.certificates,
   schema.reminders,
+  schema.managerDigests,
+  schema.reminderRuns,
   schema.waivers,
   schema.extensions,
   schema.credentials,

@@ -1,4 +1,4 @@
-import { render } from "@react-email/render";
+import { render, toPlainText } from "@react-email/render";
 import type { ReactElement } from "react";
 import { env, type Env } from "../config/env.server";
 import { sendWithResend } from "./resend-transport.server";
@@ -55,7 +55,10 @@ export async function sendEmail(message: EmailMessage, options: SendEmailOptions
   const subject = message.subject.trim();
   if (!subject || /[\r\n]/.test(subject)) return invalid("The subject must be one non-empty line.");
 
-  const [html, text] = await Promise.all([render(message.react), render(message.react, { plainText: true })]);
+  // One render: the text version is the HTML converted as `render(…, { plainText: true })`
+  // converts it (the same function, the same selectors), without rendering the template twice.
+  const html = await render(message.react);
+  const text = toPlainText(html);
   const email: OutgoingEmail = { from: settings.mailFrom, to, subject, html, text };
 
   const transport = options.transport ?? settings.mailTransport;

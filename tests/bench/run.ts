@@ -10,7 +10,9 @@
  *      40 requirements: its data request under the same load, one manager's sequential document
  *      and data requests beside the bare SQL, and the first request after a loud and a quiet
  *      write (tests/bench/team-matrix.ts);
- *   4. the exam autosave under a realistic load (issue 5 item 7, tests/bench/autosave.ts): 300
+ *   4. the reminder job over the same 2,000 people (a copy of the database; tests/bench/reminders.ts)
+ *      and one certificate PDF render ("reminders.run-2000-people", "certificate.pdf");
+ *   5. the exam autosave under a realistic load (issue 5 item 7, tests/bench/autosave.ts): 300
  *      therapists of the same database each saving an answer every 5 s for 2 minutes against a
  *      fresh server of the same build; save p50/p95/p99, answers acknowledged, found, lost.
  *
@@ -40,6 +42,7 @@ import { prepareBenchDatabase, sessionCookieHeader } from "./session";
 import { autosaveSettings, formatAutosave, measureAutosave, stopAutosave, type AutosaveSettings } from "./autosave";
 import { formatScoring, timeScoring } from "./scoring";
 import { timeModes } from "./sim";
+import { formatCertificate, formatReminderRun, measureReminderRun, timeCertificatePdf } from "./reminders";
 import {
   formatTeamMatrix,
   formatTeamMatrixSequential,
@@ -288,6 +291,15 @@ async function main(): Promise<void> {
     errors.push(`Scoring: ${message(error)}`);
   }
 
+  section("Certificate PDF: one render");
+  try {
+    const certificate = await timeCertificatePdf();
+    settings["certificate.pdf"] = certificate;
+    console.log(formatCertificate(certificate));
+  } catch (error) {
+    errors.push(`certificate.pdf: ${message(error)}`);
+  }
+
   section("Production build (fresh, of the working tree, in a temporary folder)");
   try {
     build = await buildPrivateCopy(PROJECT_ROOT);
@@ -319,6 +331,18 @@ async function main(): Promise<void> {
     if (results.http.length > 0) {
       console.log(formatHttp(results.http));
       console.log("p50/p95/p99 from every response time (nearest rank); no compression requested (autocannon sends no Accept-Encoding).");
+    }
+
+    section(`Reminder job over the large organisation (${peopleCount} people)`);
+    try {
+      if (interrupted) throw new Error("interrupted");
+      if (!benchDatabaseUrl) throw new Error("the bench database was not seeded (see the HTTP error above).");
+      const figure = await measureReminderRun({ sourceUrl: benchDatabaseUrl, workDir: BENCH_DIR, today: String(settings.seedToday ?? defaultSeedDate()) });
+      settings["reminders.run-2000-people"] = figure;
+      console.log(formatReminderRun(figure));
+    } catch (error) {
+      errors.push(`reminders.run-2000-people: ${message(error)}`);
+      console.error(`  ${message(error)}`);
     }
 
     section(`Exam autosave under load (${autosave.examinees} examinees, ${autosave.seconds} s, ${autosave.mode})`);

@@ -160,9 +160,52 @@ export const reminders = sqliteTable(
     threshold: text("threshold").notNull(),
     sentAt: instant("sent_at"),
     messageId: text("message_id"),
+    /** How it went out: its own e-mail, or a line in the person's daily digest. */
+    channel: text("channel", { enum: ["email", "digest"] }).notNull().default("email"),
+    /** Why the send failed (the transport's message); null when sent or still claimed. */
+    failure: text("failure"),
     createdAt: createdAt(),
   },
-  (t) => [uniqueIndex("reminders_once").on(t.personId, t.requirementId, t.dueOn, t.threshold)],
+  (t) => [uniqueIndex("reminders_once").on(t.personId, t.requirementId, t.dueOn, t.threshold), index("reminders_org_created").on(t.orgId, t.createdAt)],
+);
+
+/** A manager's weekly digest of their units' Due soon and Lapsed people: one per manager and ISO week. */
+export const managerDigests = sqliteTable(
+  "manager_digests",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    managerId: text("manager_id").notNull().references(() => people.id),
+    /** ISO 8601 week, e.g. "2026-W49". */
+    week: text("week").notNull(),
+    /** How many people the digest listed. */
+    people: integer("people").notNull().default(0),
+    sentAt: instant("sent_at"),
+    messageId: text("message_id"),
+    failure: text("failure"),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("manager_digests_once").on(t.managerId, t.week)],
+);
+
+/** One run of the reminder job for one organisation (Admin → Reminders shows the last ones). */
+export const reminderRuns = sqliteTable(
+  "reminder_runs",
+  {
+    id: id(),
+    orgId: text("org_id").notNull().references(() => organisations.id),
+    /** The organisation's calendar date the run judged. */
+    ranOn: calendarDate("ran_on").notNull(),
+    trigger: text("trigger", { enum: ["script", "app", "test"] }).notNull(),
+    startedAt: instant("started_at").notNull(),
+    finishedAt: instant("finished_at").notNull(),
+    /** Reminders this run claimed and sent (each its own e-mail or a digest line). */
+    sent: integer("sent").notNull().default(0),
+    /** E-mails sent (separate reminders, daily digests and manager digests). */
+    emails: integer("emails").notNull().default(0),
+    failed: integer("failed").notNull().default(0),
+  },
+  (t) => [index("reminder_runs_org_ran").on(t.orgId, t.ranOn)],
 );
 
 export type Requirement = typeof requirements.$inferSelect;

@@ -19,7 +19,13 @@ export const organisations = sqliteTable("organisations", {
 });
 export type OrganisationSettings = {
   educationLeadName?: string;
+  /**
+   * Reminder thresholds in days before a date (0: on the day). The status engine reads its
+   * "Due soon" window from the largest; the reminder job sends at each (app/domain/reminders).
+   */
   reminderDays?: number[];
+  /** The rest of the reminder policy (app/domain/reminders/policy.ts); absent: the defaults. */
+  reminderPolicy?: { weeklyWhileLapsed: boolean; boardMonthsBefore: number[]; managerDigest: boolean };
   contactEmail?: string;
 };
 
@@ -57,6 +63,8 @@ export const people = sqliteTable(
     /** Hashed signing PIN (second signature component); set by the person. */
     signingPinHash: text("signing_pin_hash"),
     signingPinFailures: integer("signing_pin_failures").notNull().default(0),
+    /** The person's choice: each reminder as its own e-mail, or one daily digest (issue 9 §1). */
+    reminderDelivery: text("reminder_delivery", { enum: ["each", "digest"] }).notNull().default("each"),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

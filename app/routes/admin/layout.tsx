@@ -11,6 +11,7 @@ const TABS: SectionTab[] = [
   { to: "/admin/people", label: "People", end: false },
   { to: "/admin/roster", label: "Roster import", end: false },
   { to: "/admin/references", label: "Regulatory references", end: false },
+  { to: "/admin/reminders", label: "Reminders", end: false },
   { to: "/admin/audit", label: "Audit trail", end: false },
   { to: "/admin/api", label: "API", end: false },
 ];

@@ -9,14 +9,13 @@ import { data, Form, redirect, useFetcher, useLoaderData, useNavigate, useNaviga
 import { notFound, requireViewer } from "~/auth/gate.server";
 import { AnswerControl, givenFromStored, type GivenAnswer } from "~/components/exams/answer-control";
 import { Button } from "~/components/ui/button";
-import { ensureDeadlineSweeper, finishAttempt, ownAttempt, saveView, takingView } from "~/db/queries/exam-attempts.server";
+import { finishAttempt, ownAttempt, saveView, takingView } from "~/db/queries/exam-attempts.server";
 import { database } from "~/db/client.server";
 import { formatDuration, IN_FLIGHT_GRACE_S, WARNINGS_S } from "~/domain/exams";
 import type { Route } from "./+types/attempt";
 
 export async function loader({ params, context }: Route.LoaderArgs) {
   const viewer = requireViewer(context, "section:exams");
-  ensureDeadlineSweeper();
   const view = await takingView({ orgId: viewer.org.id, personId: viewer.person.id, timeZone: viewer.org.timeZone }, params.attemptId);
   if (view === null) notFound("We could not find that attempt.", true);
   if (view === "closed") throw redirect(`/exams/attempts/${params.attemptId}/result`);

@@ -37,7 +37,7 @@ export default function MyPlan() {
         Your exams, check-offs and credentials, soonest first — anything overdue is at the top. Today is{" "}
         <CalendarDate value={today} long /> ({timeZone}). “Due soon” means within {reminderDays} days.
       </p>
-      <p className="mt-2"><Link to="/plan/calendar" className="underline">Put these dates in your calendar app</Link></p>
+      <p className="mt-2"><Link to="/plan/calendar" className="underline">Put these dates in your calendar app</Link> · <Link to="/plan/reminders" className="underline">Reminder e-mails</Link></p>
 
       {orientation.length > 0 ? (
         <div className="mt-6">
