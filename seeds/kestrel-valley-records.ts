@@ -11,6 +11,7 @@ import { KESTREL_VALLEY, type KvPerson, type KvRoster, type KvUnitKey } from "./
 import { addSeededCertificates } from "./certificates";
 import { addSignedCheckoff } from "./orientation-checkoffs";
 import { prngFor, type Prng } from "./prng";
+import { addSkillHistory } from "./skill-history";
 
 export type KvCatalogue = {
   references: Map<string, string>;
@@ -258,5 +259,7 @@ export function addKvRecords(ctx: OrgContext, roster: KvRoster, cat: KvCatalogue
   // The demo therapist's refresher check-off of a skill outside the requirements, signed competent
   // by the demo preceptor six weeks ago: so the demo therapist has a certificate to download.
   addSignedCheckoff(ctx, { hire: therapist, preceptor, checklistKey: "high-pressure-alarm", on: addDays(t, -40), timeZone: KESTREL_VALLEY.timeZone });
+  // Staff's past check-offs of the skills no requirement renews (the Clearance board's variety).
+  addSkillHistory(ctx, roster, KESTREL_VALLEY.timeZone);
   addSeededCertificates(ctx, KESTREL_VALLEY.timeZone);
 }

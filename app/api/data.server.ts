@@ -7,8 +7,9 @@ import { and, asc, eq, gt, inArray, isNotNull, type SQL } from "drizzle-orm";
 import type { z } from "zod";
 import { database } from "~/db/client.server";
 import { recordAudit } from "~/db/audit.server";
-import { attempts, clearances, credentials, credentialTypes, exams, examVersions, people, personRoles, personUnits, requirements, units } from "~/db/schema";
+import { attempts, credentials, credentialTypes, exams, examVersions, people, personRoles, personUnits, requirements, units } from "~/db/schema";
 import { getPlan } from "~/db/queries/plan.server";
+import { deriveBoard, flattenBoard } from "~/db/queries/clearance.server";
 import { statusOptionsFor } from "~/db/queries/people.server";
 import { listCredentialTypes, personOf } from "~/db/queries/credentials.server";
 import { validThroughForType } from "~/domain/validity";
@@ -207,17 +208,25 @@ export async function listExamResultsPage(
   };
 }
 
-export async function listClearancesPage(orgId: string, { after, limit }: PageArgs): Promise<Page<z.infer<typeof ClearanceSchema>>> {
-  const { db } = await database();
-  const rows = await db
-    .select()
-    .from(clearances)
-    .where(and(eq(clearances.orgId, orgId), afterId(clearances.id, after)))
-    .orderBy(asc(clearances.id))
-    .limit(limit + 1);
-  const page = pageFrom(rows, limit);
+/**
+ * Clearances as the Clearance board derives them (app/db/queries/clearance.server.ts), on the
+ * organisation's calendar day of `now`: one row per person, unit they work on, and skill. Rows
+ * are derived, not stored, so the API and the board never disagree; ids are stable per person,
+ * unit and skill, so keyset paging holds while the day lasts.
+ */
+export async function listClearancesPage(
+  orgId: string,
+  timeZone: string,
+  filter: { unitId?: string; checklistId?: string },
+  { after, limit }: PageArgs,
+  now: Date = new Date(),
+): Promise<Page<z.infer<typeof ClearanceSchema>>> {
+  const board = await deriveBoard(orgId, timeZone, { unitIds: filter.unitId ? [filter.unitId] : null, checklistId: filter.checklistId ?? null }, now);
+  const rows = flattenBoard(board).filter((r) => after === null || r.id > after);
+  const page = pageFrom(rows.slice(0, limit + 1), limit);
+  const derivedAt = board.derivedAt.toISOString();
   return {
-    data: page.rows.map((c) => ({ id: c.id, personId: c.personId, unitId: c.unitId, checklistId: c.checklistId, level: c.level, reason: c.reason, derivedAt: c.derivedAt.toISOString() })),
+    data: page.rows.map((c) => ({ id: c.id, personId: c.personId, unitId: c.unitId, checklistId: c.checklistId, level: c.level, reason: c.reason, requirementId: c.requirementId, derivedAt })),
     nextCursor: page.nextCursor,
   };
 }

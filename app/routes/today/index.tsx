@@ -46,6 +46,7 @@ export async function loader({ context }: Route.LoaderArgs) {
     profile,
     canSeePlan: can(viewer.roles, "section:plan"),
     canSeeTeam: can(viewer.roles, "section:team"),
+    canSeeClearance: can(viewer.roles, "section:clearance"),
     credentials: rows.filter((r) => r.kind === "credential"),
     // Open work: exams and check-offs not yet done (a met one carries a valid-through date instead).
     work: rows.filter((r) => r.kind !== "credential" && r.dateMeaning === "due"),
@@ -131,6 +132,13 @@ export default function Today() {
             <p>
               <Link to="/plan" className="font-semibold">
                 See everything in your plan, in due-date order
+              </Link>
+            </p>
+          ) : null}
+          {data.canSeeClearance ? (
+            <p>
+              <Link to="/clearance" className="font-semibold">
+                The Clearance board: who is cleared for what today
               </Link>
             </p>
           ) : null}

@@ -2,16 +2,17 @@ import { authenticate } from "~/api/token.server";
 import { listClearancesPage } from "~/api/data.server";
 import { handle, pageArgs, parseQuery, requireBearer } from "~/api/handler.server";
 import { json, methodNotAllowed } from "~/api/respond.server";
-import { PageQuery } from "~/api/schemas";
+import { ClearancesQuery } from "~/api/schemas";
 import type { Route } from "./+types/clearances";
 
 export const middleware: Route.MiddlewareFunction[] = [requireBearer];
 
-// Clearances are derived by the clearance engine; this answers what is stored.
+// Derived from the records on each request, as the Clearance board is (one derivation).
 export async function loader({ request }: Route.LoaderArgs) {
   return handle(async () => {
     const caller = await authenticate(request, "read");
-    return json(await listClearancesPage(caller.orgId, pageArgs(parseQuery(request, PageQuery))));
+    const query = parseQuery(request, ClearancesQuery);
+    return json(await listClearancesPage(caller.orgId, caller.timeZone, { unitId: query.unitId, checklistId: query.checklistId }, pageArgs(query)));
   });
 }
 
