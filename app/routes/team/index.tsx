@@ -1,8 +1,10 @@
 import { Form, Link, useLoaderData } from "react-router";
 import { requireViewer } from "~/auth/gate.server";
+import { TrendChart } from "~/components/reports/trend-chart";
 import { Button } from "~/components/ui/button";
 import { TextField } from "~/components/ui/field";
 import { statusOptionsFor } from "~/db/queries/people.server";
+import { complianceTrend } from "~/db/queries/reports.server";
 import { listManagedUnits, listTeam, type TeamScope } from "~/db/queries/team.server";
 import { parseTeamSearch, teamHref } from "./search-params";
 import { TeamTable } from "./team-table";
@@ -17,7 +19,9 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     ? { kind: "organisation" }
     : { kind: "units", units: await listManagedUnits(orgId, viewer.person.id) };
   const options = await statusOptionsFor(orgId, viewer.org.timeZone);
-  const team = await listTeam(orgId, scope, query, options);
+  // The 12-month trend is cached (cachedRead) with the same key as on Reports: unit ids sorted.
+  const trendScope = { unitIds: scope.kind === "organisation" ? null : scope.units.map((u) => u.id).sort() };
+  const [team, trend] = await Promise.all([listTeam(orgId, scope, query, options), complianceTrend(orgId, trendScope, viewer.org.timeZone, options)]);
   return {
     query: { ...query, page: team.page },
     scope: scope.kind === "organisation" ? { kind: "organisation" as const, units: [] } : { kind: "units" as const, units: scope.units.map((u) => u.name) },
@@ -25,11 +29,12 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     today: options.today,
     reminderDays: options.reminderDays,
     team,
+    trend,
   };
 }
 
 export default function Team() {
-  const { query, scope, orgName, team, reminderDays } = useLoaderData<typeof loader>();
+  const { query, scope, orgName, team, reminderDays, trend } = useLoaderData<typeof loader>();
   const first = team.matching === 0 ? 0 : (team.page - 1) * team.pageSize + 1;
   const last = Math.min(team.page * team.pageSize, team.matching);
   const noUnits = scope.kind === "units" && scope.units.length === 0;
@@ -103,6 +108,8 @@ export default function Team() {
           ) : null}
         </nav>
       ) : null}
+
+      {noUnits ? null : <TrendChart trend={trend} heading="Compliance by unit over the past 12 months" />}
     </>
   );
 }
