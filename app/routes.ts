@@ -15,6 +15,8 @@ export default [
     route("units", "routes/api/v1/units.ts"),
     route("requirements", "routes/api/v1/requirements.ts"),
     route("exam-results", "routes/api/v1/exam-results.ts"),
+    route("exam-attempts/:attemptId", "routes/api/v1/exam-attempt.ts"),
+    route("team-matrix", "routes/api/v1/team-matrix.ts"),
     route("clearances", "routes/api/v1/clearances.ts"),
     route("credentials", "routes/api/v1/credentials.ts"),
     route("credentials/:credentialId", "routes/api/v1/credential.ts"),

@@ -7,15 +7,19 @@
 import type { z } from "zod";
 import {
   ClearancePage,
+  ClearancesQuery,
   CredentialPage,
   CredentialSchema,
   CredentialsQuery,
   ExamResultPage,
   ExamResultsQuery,
+  ExamAttemptSchema,
   PageQuery,
   PersonPage,
   PersonStatusSchema,
   RequirementPage,
+  TeamMatrixPage,
+  TeamMatrixQuery,
   UnitPage,
 } from "./schemas";
 
@@ -70,7 +74,37 @@ export const API_ENDPOINTS: Endpoint[] = [
     response: ExamResultPage,
     status: 200,
   },
-  { method: "get", route: "/api/v1/clearances", scope: "read", summary: "List clearances", description: `What each person may do on a unit, per skill, as last derived. ${PAGING}`, query: PageQuery, response: ClearancePage, status: 200 },
+  {
+    method: "get",
+    route: "/api/v1/exam-attempts/:attemptId",
+    scope: "read",
+    summary: "Where an exam attempt stands",
+    description:
+      "Open or closed, the server's deadline, questions answered and flagged, when the latest answer was saved, and the score once graded — the same figures the exam page's save reply carries. An attempt past its deadline is closed and graded first. Never the answers or the keys.",
+    pathParams: [{ name: "attemptId", description: "The attempt's id" }],
+    response: ExamAttemptSchema,
+    status: 200,
+  },
+  {
+    method: "get",
+    route: "/api/v1/team-matrix",
+    scope: "read",
+    summary: "The Team matrix: people × requirements",
+    description: `Every person of the organisation with one cell per requirement that applies to them, judged on the organisation's today by the same function as the Team matrix page, with the page's filters: ?q= (name or employee id), ?unitId=, ?role=, ?status= (people with at least one requirement in that status), ?sort= (name, unit, lapsed) and ?dir= (asc, desc). ${PAGING}`,
+    query: TeamMatrixQuery,
+    response: TeamMatrixPage,
+    status: 200,
+  },
+  {
+    method: "get",
+    route: "/api/v1/clearances",
+    scope: "read",
+    summary: "List clearances",
+    description: `What each person may do today on each unit they work on, per skill: independent, supervised or not cleared, with the reason — derived from the current records, exactly as the Clearance board shows it. Filter with ?unitId= and ?checklistId=. ${PAGING}`,
+    query: ClearancesQuery,
+    response: ClearancePage,
+    status: 200,
+  },
   { method: "get", route: "/api/v1/credentials", scope: "read", summary: "List credentials", description: `Cards and licences held. Filter with ?personId=. ${PAGING}`, query: CredentialsQuery, response: CredentialPage, status: 200 },
   {
     method: "post",

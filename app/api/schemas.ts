@@ -7,6 +7,8 @@
 import { z } from "zod";
 import { CREDENTIAL_INTENTS, recordCredentialSchema } from "~/routes/credentials/schemas";
 import { STATUSES } from "~/domain/status";
+import { CLEARANCE_LEVELS } from "~/domain/clearance";
+import { MATRIX_FILTER_FIELDS } from "~/routes/team/matrix-params";
 
 /** Every named shape of the API, for the OpenAPI document's components. */
 export const API_SCHEMAS = z.registry<{ id: string }>();
@@ -56,6 +58,10 @@ export const PageQuery = z.object({
 export const ExamResultsQuery = PageQuery.extend({
   examId: z.string().min(1).optional().describe("Only this exam's results"),
   personId: z.string().min(1).optional().describe("Only this person's results"),
+});
+export const ClearancesQuery = PageQuery.extend({
+  unitId: z.string().min(1).optional().describe("Only this unit's people"),
+  checklistId: z.string().min(1).optional().describe("Only this skill (a checklist id)"),
 });
 export const CredentialsQuery = PageQuery.extend({
   personId: z.string().min(1).optional().describe("Only this person's credentials"),
@@ -125,13 +131,14 @@ export const ExamResultSchema = z
 
 export const ClearanceSchema = z
   .object({
-    id: z.string(),
+    id: z.string().describe("Stable for one person, unit and skill"),
     personId: z.string(),
     unitId: z.string(),
-    checklistId: z.string(),
-    level: z.string(),
-    reason: z.string().nullable(),
-    derivedAt: instant,
+    checklistId: z.string().describe("The skill: a published checklist"),
+    level: z.enum(CLEARANCE_LEVELS).describe("What the person may do on this unit today: the same derivation as the Clearance board"),
+    reason: z.string().describe("Why, in words, e.g. the requirement that lapsed and what its lapse leaves"),
+    requirementId: z.string().nullable().describe("The requirement that decided the level, when one did"),
+    derivedAt: instant.describe("When the level was derived from the records"),
   })
   .register(API_SCHEMAS, { id: "Clearance" });
 
@@ -189,3 +196,60 @@ export function credentialBodyJsonSchema(mode: "create" | "update"): Record<stri
   }
   return { ...rest, properties, required: (schema.required ?? []).filter((r) => r !== "intent") };
 }
+
+// ── Views the pages fetch in place, from the same server functions ────────────────────────
+/** The Team matrix's filters, by the page's own field rules (MATRIX_FILTER_FIELDS). */
+export const TeamMatrixQuery = PageQuery.extend({
+  q: MATRIX_FILTER_FIELDS.q.optional().describe("Name or employee id contains this (any case)"),
+  unitId: MATRIX_FILTER_FIELDS.unit.optional().describe("Only people on this unit"),
+  role: MATRIX_FILTER_FIELDS.role.optional().describe("Only people with this role"),
+  status: MATRIX_FILTER_FIELDS.status.optional().describe("Only people with at least one requirement in this status"),
+  sort: MATRIX_FILTER_FIELDS.sort.default("name").describe("name, unit (home unit) or lapsed (number of lapsed requirements)"),
+  dir: MATRIX_FILTER_FIELDS.dir.default("asc"),
+});
+
+export const MatrixCellSchema = z
+  .object({
+    requirementId: z.string(),
+    status: z.enum(STATUSES),
+    date: isoDate.nullable().describe("Due date (after any extension) or valid-through date"),
+    dateMeaning: z.enum(["due", "valid-through"]),
+    waivedThrough: isoDate.nullable(),
+  })
+  .register(API_SCHEMAS, { id: "MatrixCell" });
+
+export const TeamMatrixPage = z
+  .object({
+    today: isoDate.describe("The organisation's calendar day the statuses are judged on"),
+    requirements: z.array(z.object({ id: z.string(), name: z.string(), kind: z.enum(["exam", "checklist", "credential"]) })),
+    matching: z.number().int().describe("People matching the filters, across all pages"),
+    data: z.array(
+      z.object({
+        person: z.object({ id: z.string(), name: z.string(), employeeId: z.string().nullable(), homeUnit: z.string().nullable() }),
+        cells: z.array(MatrixCellSchema).describe("One per requirement that applies to the person"),
+      }),
+    ),
+    nextCursor: z.string().nullable().describe("Pass as ?cursor= for the next page; null on the last"),
+  })
+  .register(API_SCHEMAS, { id: "TeamMatrixPage" });
+
+export const ExamAttemptSchema = z
+  .object({
+    attemptId: z.string(),
+    personId: z.string(),
+    examId: z.string(),
+    examTitle: z.string(),
+    version: z.number().int(),
+    attemptNumber: z.number().int(),
+    state: z.enum(["open", "closed"]),
+    startedAt: instant,
+    deadlineAt: instant.nullable().describe("The server's deadline; null for an untimed sitting"),
+    total: z.number().int().describe("Questions on the attempt's form"),
+    answered: z.number().int().describe("Questions with a saved answer"),
+    flagged: z.number().int().describe("Questions flagged for review"),
+    lastSavedAt: instant.nullable().describe("When the latest answer or flag reached the server"),
+    closedReason: z.enum(["submitted", "deadline"]).nullable(),
+    scorePercent: z.number().nullable(),
+    passed: z.boolean().nullable(),
+  })
+  .register(API_SCHEMAS, { id: "ExamAttempt" });

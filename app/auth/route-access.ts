@@ -40,6 +40,8 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   "/api/v1/units": { who: "token", scope: "read" },
   "/api/v1/requirements": { who: "token", scope: "read" },
   "/api/v1/exam-results": { who: "token", scope: "read" },
+  "/api/v1/exam-attempts/:attemptId": { who: "token", scope: "read", note: "an attempt's progress, as the exam page's save reply says it; never answers or keys" },
+  "/api/v1/team-matrix": { who: "token", scope: "read", note: "the Team matrix of the organisation, filtered as the page filters" },
   "/api/v1/clearances": { who: "token", scope: "read" },
   "/api/v1/credentials": { who: "token", scope: "read", note: "GET needs read; POST needs the write scope" },
   "/api/v1/credentials/:credentialId": { who: "token", scope: "read", note: "GET needs read; PATCH needs the write scope" },

@@ -673,6 +673,78 @@ export async function examsForPerson(who: Who, now = new Date()): Promise<{ card
 }
 
 /** Answers saved for an attempt (for tests and the bench's lost-answer count). */
+export type AttemptProgress = {
+  attemptId: string;
+  personId: string;
+  examId: string;
+  examTitle: string;
+  version: number;
+  attemptNumber: number;
+  state: "open" | "closed";
+  startedAt: string;
+  /** The server's deadline; null for an untimed sitting. */
+  deadlineAt: string | null;
+  /** Questions on the form, answered, and flagged for review. */
+  total: number;
+  answered: number;
+  flagged: number;
+  /** When the latest answer or flag reached the server. */
+  lastSavedAt: string | null;
+  closedReason: "submitted" | "deadline" | null;
+  scorePercent: number | null;
+  passed: boolean | null;
+};
+
+/**
+ * Where an attempt stands, as the server holds it: what every reader of an attempt's progress
+ * uses — the exam page's save reply (/exams/attempts/:id/answers) and the API's
+ * /api/v1/exam-attempts/:id — so the two never disagree. An open attempt past its deadline is
+ * closed and graded first, as on every read. Null: no such attempt in the organisation.
+ */
+export async function attemptProgress(orgId: string, attemptId: string, now = new Date()): Promise<AttemptProgress | null> {
+  const { db } = await database();
+  const [found] = await db
+    .select({ personId: attempts.personId, submittedAt: attempts.submittedAt, deadlineAt: attempts.deadlineAt })
+    .from(attempts)
+    .where(and(eq(attempts.orgId, orgId), eq(attempts.id, attemptId)));
+  if (!found) return null;
+  if (!found.submittedAt && !acceptsAnswerAt(found.deadlineAt, now)) await finishAttempt(orgId, attemptId, "deadline", now);
+  const [row] = await db
+    .select({
+      attempt: attempts,
+      examId: exams.id,
+      examTitle: exams.title,
+      version: examVersions.version,
+      answered: sql<number>`(select count(*) from ${responses} where ${responses.attemptId} = ${attempts.id} and ${responses.answer} is not null)`,
+      flagged: sql<number>`(select count(*) from ${responses} where ${responses.attemptId} = ${attempts.id} and ${responses.flagged} = 1)`,
+      lastSavedAt: sql<number | null>`(select max(${responses.savedAt}) from ${responses} where ${responses.attemptId} = ${attempts.id})`,
+    })
+    .from(attempts)
+    .innerJoin(examVersions, eq(examVersions.id, attempts.examVersionId))
+    .innerJoin(exams, eq(exams.id, examVersions.examId))
+    .where(and(eq(attempts.orgId, orgId), eq(attempts.id, attemptId)));
+  if (!row) return null;
+  const a = row.attempt;
+  return {
+    attemptId: a.id,
+    personId: a.personId,
+    examId: row.examId,
+    examTitle: row.examTitle,
+    version: row.version,
+    attemptNumber: a.attemptNumber,
+    state: a.submittedAt ? "closed" : "open",
+    startedAt: a.startedAt.toISOString(),
+    deadlineAt: a.deadlineAt?.toISOString() ?? null,
+    total: (a.form as StoredFormEntry[]).length,
+    answered: Number(row.answered),
+    flagged: Number(row.flagged),
+    lastSavedAt: row.lastSavedAt === null ? null : new Date(Number(row.lastSavedAt)).toISOString(),
+    closedReason: a.closedReason,
+    scorePercent: a.scorePercent,
+    passed: a.passed,
+  };
+}
+
 export async function answeredCount(db: DbOrTx, attemptId: string): Promise<number> {
   const [row] = await db
     .select({ n: count() })

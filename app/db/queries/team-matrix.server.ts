@@ -13,6 +13,7 @@ import { addDays, calendarDateIn, STATUS_URGENCY, type IsoDate, type Status, typ
 import { buildPlan, type PlanAssignment, type PlanCompletion, type PlanCredential, type PlanExtension, type PlanRequirement, type PlanWaiver } from "~/domain/status/plan";
 import { MATRIX_PAGE_SIZE, type CellTuple } from "~/routes/team/matrix-params";
 import { onUnits } from "./credential-summary.server";
+import { statusOptionsFor } from "./people.server";
 
 export type MatrixColumn = { id: string; name: string; kind: "exam" | "checklist" | "credential" };
 export type MatrixCell = { status: Status; date: IsoDate | null; dateMeaning: "due" | "valid-through"; extendedTo: IsoDate | null; waivedThrough: IsoDate | null };
@@ -226,6 +227,18 @@ export function filterMatrix(matrix: Matrix, f: MatrixFilter): MatrixPerson[] {
   else if (f.sort === "lapsed") out.sort((a, b) => sign * (lapsed(a) - lapsed(b)) || byDefault(a.name, b.name));
   else if (f.dir === "desc") out.reverse();
   return out;
+}
+
+/**
+ * One view of the matrix — the assessment for a scope on the organisation's today, filtered and
+ * sorted as asked — for every reader of it: the Team matrix page (its document and the views it
+ * fetches in place) and the API's /api/v1/team-matrix, so the two can never disagree. Callers
+ * take their page of `matching` (the page by page number, the API by cursor).
+ */
+export async function matrixView(orgId: string, scope: Scope, timeZone: string, filter: Omit<MatrixFilter, "page">, now: Date = new Date()) {
+  const options = await statusOptionsFor(orgId, timeZone, now);
+  const matrix = await loadMatrix(orgId, scope, timeZone, options);
+  return { options, matrix, matching: filterMatrix(matrix, { ...filter, page: 1 }) };
 }
 
 export type UnitCompliance = { unitId: string; unit: string; people: number; cells: number; counts: Record<Status, number>; percentCurrent: number };

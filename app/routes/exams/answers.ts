@@ -2,14 +2,16 @@
  * Saves one answer (or its review flag) of the signed-in person's own open attempt, the moment
  * it is given. POST, form-encoded: `position` (the place on the form), `answer` (JSON of the
  * answer as the page sends it; empty clears it) and/or `flagged` ("true" | "false").
- * Answers with JSON: `{ ok: true, position, savedAt }`, or `{ ok: false, message }` with 404 (not
+ * Answers with JSON: `{ ok: true, position, savedAt, progress }` — progress is the attempt as the
+ * server now holds it, from the same attemptProgress() the API's /api/v1/exam-attempts/:id
+ * answers with — or `{ ok: false, message }` with 404 (not
  * the person's attempt), 409 (closed, or arrived after the deadline) or 422 (not a valid answer).
  * Cross-site posts are refused by the root middleware (403) before this runs.
  */
 import { data } from "react-router";
 import { z } from "zod";
 import { notFound, requireViewer } from "~/auth/gate.server";
-import { saveAnswer, type SubmittedAnswer } from "~/db/queries/exam-attempts.server";
+import { attemptProgress, saveAnswer, type SubmittedAnswer } from "~/db/queries/exam-attempts.server";
 import type { Route } from "./+types/answers";
 
 const answerSchema: z.ZodType<SubmittedAnswer> = z.discriminatedUnion("kind", [
@@ -59,6 +61,6 @@ export async function action({ request, params, context }: Route.ActionArgs) {
     form.data.position,
     { answer, flagged: form.data.flagged === undefined ? undefined : form.data.flagged === "true" },
   );
-  if (result.ok) return data(result, { headers: { "Cache-Control": "no-store" } });
+  if (result.ok) return data({ ...result, progress: await attemptProgress(viewer.org.id, params.attemptId) }, { headers: { "Cache-Control": "no-store" } });
   return data({ ok: false, message: result.message, closed: result.closed ?? false }, { status: result.status, headers: { "Cache-Control": "no-store" } });
 }

@@ -1,8 +1,7 @@
 /** The filtered matrix as CSV (every matching person, not one page), formula cells neutralised. */
 import { requireViewer } from "~/auth/gate.server";
 import { STATUS_WORDS } from "~/components/ui/status-mark";
-import { statusOptionsFor } from "~/db/queries/people.server";
-import { filterMatrix, loadMatrix, matrixScopeFor } from "~/db/queries/team-matrix.server";
+import { matrixScopeFor, matrixView } from "~/db/queries/team-matrix.server";
 import { toCsv } from "./csv";
 import { parseMatrixSearch } from "./matrix-params";
 import type { Route } from "./+types/matrix-export";
@@ -11,9 +10,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   const viewer = requireViewer(context, "team:read");
   const search = parseMatrixSearch(new URL(request.url).searchParams);
   const scope = await matrixScopeFor(viewer.org.id, viewer.person.id, viewer.roles);
-  const options = await statusOptionsFor(viewer.org.id, viewer.org.timeZone);
-  const matrix = await loadMatrix(viewer.org.id, scope, viewer.org.timeZone, options);
-  const people = filterMatrix(matrix, search);
+  const { options, matrix, matching: people } = await matrixView(viewer.org.id, scope, viewer.org.timeZone, search);
   const header = ["Name", "Employee id", "Home unit", ...matrix.columns.flatMap((c) => [c.name, `${c.name}: date`])];
   const rows = people.map((p) => [
     p.name,

@@ -30,13 +30,27 @@ export function decodeCells(encoded: string): (CellTuple | null)[] {
 /** Rows per page of the matrix: 25 people × every requirement (up to ~1,000 cells) is more than a screen, and keeps each page light to send and to read with a screen reader. */
 export const MATRIX_PAGE_SIZE = 25;
 
+/**
+ * The matrix's filter fields, strict: the API (/api/v1/team-matrix) refuses a bad value with the
+ * field's message; the page falls back to the default view instead (below). One definition, so
+ * the page and the API filter by the same rules.
+ */
+export const MATRIX_FILTER_FIELDS = {
+  q: z.string().trim().max(100, "Search for at most 100 characters."),
+  unit: z.string().max(100, "That is not a unit id."),
+  role: z.enum(ROLES, { error: `The role is one of ${ROLES.join(", ")}.` }),
+  status: z.enum(STATUSES, { error: `The status is one of ${STATUSES.join(", ")}.` }),
+  sort: z.enum(["name", "unit", "lapsed"], { error: "Sort by name, unit or lapsed." }),
+  dir: z.enum(["asc", "desc"], { error: "The direction is asc or desc." }),
+};
+
 const MatrixSearchSchema = z.object({
-  q: z.string().trim().max(100).catch(""),
-  unit: z.string().max(100).catch(""),
-  role: z.enum(ROLES).or(z.literal("")).catch(""),
-  status: z.enum(STATUSES).or(z.literal("")).catch(""),
-  sort: z.enum(["name", "unit", "lapsed"]).catch("name"),
-  dir: z.enum(["asc", "desc"]).catch("asc"),
+  q: MATRIX_FILTER_FIELDS.q.catch(""),
+  unit: MATRIX_FILTER_FIELDS.unit.catch(""),
+  role: MATRIX_FILTER_FIELDS.role.or(z.literal("")).catch(""),
+  status: MATRIX_FILTER_FIELDS.status.or(z.literal("")).catch(""),
+  sort: MATRIX_FILTER_FIELDS.sort.catch("name"),
+  dir: MATRIX_FILTER_FIELDS.dir.catch("asc"),
   page: z.coerce.number().int().min(1).max(100_000).catch(1),
 });
 

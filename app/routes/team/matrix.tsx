@@ -8,13 +8,7 @@ import { MatrixTable } from "~/components/team/matrix-table";
 import { Button } from "~/components/ui/button";
 import { SelectField, TextField } from "~/components/ui/field";
 import { STATUS_WORDS } from "~/components/ui/status-mark";
-import { statusOptionsFor } from "~/db/queries/people.server";
-import {
-  cellTuple,
-  filterMatrix,
-  loadMatrix,
-  matrixScopeFor,
-} from "~/db/queries/team-matrix.server";
+import { cellTuple, matrixScopeFor, matrixView } from "~/db/queries/team-matrix.server";
 import { STATUSES } from "~/domain/status";
 import {
   encodeCells,
@@ -33,14 +27,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     viewer.person.id,
     viewer.roles,
   );
-  const options = await statusOptionsFor(viewer.org.id, viewer.org.timeZone);
-  const matrix = await loadMatrix(
-    viewer.org.id,
-    scope,
-    viewer.org.timeZone,
-    options,
-  );
-  const matching = filterMatrix(matrix, search);
+  const { options, matrix, matching } = await matrixView(viewer.org.id, scope, viewer.org.timeZone, search);
   const pageCount = Math.max(1, Math.ceil(matching.length / MATRIX_PAGE_SIZE));
   const page = Math.min(search.page, pageCount);
   return {
