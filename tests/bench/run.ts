@@ -168,12 +168,14 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
   }
 
   const port = await choosePort(positive("port", flags.port));
+  // TIDEMARK_REMINDERS=off on the bench's servers: the reminder job is timed on its own (below);
+  // inside a measured server its first catch-up run would be timed as request latency.
   server = await startBenchServer({
     projectRoot: PROJECT_ROOT,
     serverEntry: benchBuild.serverEntry,
     port,
     logFile: path.join(BENCH_DIR, "server.log"),
-    env: { NODE_ENV: "production", DATABASE_URL: db.databaseUrl, DATA_DIR: path.relative(PROJECT_ROOT, BENCH_DIR), SESSION_SECRET, TOTP_SECRET },
+    env: { NODE_ENV: "production", DATABASE_URL: db.databaseUrl, DATA_DIR: path.relative(PROJECT_ROOT, BENCH_DIR), SESSION_SECRET, TOTP_SECRET, TIDEMARK_REMINDERS: "off" },
   });
   console.log(`Server PID ${server.pid} on ${server.baseUrl} (log: data/bench/server.log).`);
   settings.port = port;
@@ -356,7 +358,7 @@ async function main(): Promise<void> {
         databaseUrl,
         port: await choosePort(positive("port", flags.port) + 1),
         logFile: path.join(BENCH_DIR, "server-autosave.log"),
-        env: { NODE_ENV: "production", DATABASE_URL: databaseUrl, DATA_DIR: path.relative(PROJECT_ROOT, BENCH_DIR), SESSION_SECRET, TOTP_SECRET },
+        env: { NODE_ENV: "production", DATABASE_URL: databaseUrl, DATA_DIR: path.relative(PROJECT_ROOT, BENCH_DIR), SESSION_SECRET, TOTP_SECRET, TIDEMARK_REMINDERS: "off" },
         sessionSecret: SESSION_SECRET,
         settings: autosave,
         onServer: (s) => (server = s),

@@ -296,6 +296,9 @@ async function sendAll(messages: Outgoing[], mail: SendEmailOptions, concurrency
         ok: false as const,
         error: { kind: "invalid" as const, message: error instanceof Error ? error.message : String(error) },
       }));
+      // Rendering is synchronous work and a refused send answers without I/O: give the event
+      // loop a turn between messages, so a long run inside the app never holds up requests.
+      await new Promise<void>((resolve) => setImmediate(resolve));
     }
   }
   await Promise.all(Array.from({ length: Math.max(1, Math.min(concurrency, messages.length)) }, worker));
