@@ -67,9 +67,13 @@ describe("report pages", () => {
     expect(packet).toContain(`packet for ${world.viewers.therapist.person.name}`);
   });
 
-  it("Team shows the compliance trend", async () => {
+  it("Team streams the compliance trend after the page: a placeholder first, then the trend", async () => {
+    // renderToString cannot wait for the streamed part; the browser spec (reports.spec.ts) sees the chart.
     const html = await render(teamPage as unknown as AnyRoute, world.viewers.manager, "/team");
-    expect(html).toContain("Compliance by unit over the past 12 months");
-    expect(html).toContain("% Current per unit at each month end");
+    expect(html).toContain("Working out the past 12 months");
+    const data = (await teamPage.loader(args(getRequest("/team"), world.viewers.manager) as never)) as { trend: Promise<{ monthEnds: string[]; series: unknown[] }> };
+    const trend = await data.trend;
+    expect(trend.monthEnds).toHaveLength(12);
+    expect(trend.series.length).toBeGreaterThan(0);
   });
 });

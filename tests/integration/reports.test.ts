@@ -241,7 +241,7 @@ describe("the 12-month trend", () => {
       expect(s.points[11].percentCurrent).toBe(nov.units.find((u) => u.unitId === s.unitId)!.percentCurrent);
     }
     const teamData = await team(world.viewers.manager);
-    expect(teamData.trend.series.map((s) => s.unitId)).toEqual(data.trend.series.map((s) => s.unitId));
+    expect((await teamData.trend).series.map((s) => s.unitId)).toEqual(data.trend.series.map((s) => s.unitId));
   });
 });
 

@@ -189,7 +189,12 @@ export async function complianceTrend(orgId: string, scope: ReportScope, timeZon
   return cachedRead(await database(), key, async () => {
     const rows = await readReportRows(orgId, scope);
     const monthEnds = monthEndsBefore(options.today, 12);
-    const reports = monthEnds.map((day) => complianceFromRows(rows, scope, timeZone, day, options.reminderDays));
+    const reports: ComplianceReport[] = [];
+    for (const day of monthEnds) {
+      reports.push(complianceFromRows(rows, scope, timeZone, day, options.reminderDays));
+      // Each assessment of a large organisation is long synchronous work: let requests in between.
+      await new Promise<void>((resolve) => setImmediate(resolve));
+    }
     const units = reports[reports.length - 1]?.units ?? [];
     return {
       monthEnds,

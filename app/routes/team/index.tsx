@@ -1,4 +1,5 @@
-import { Form, Link, useLoaderData } from "react-router";
+import { Suspense } from "react";
+import { Await, Form, Link, useLoaderData } from "react-router";
 import { requireViewer } from "~/auth/gate.server";
 import { TrendChart } from "~/components/reports/trend-chart";
 import { Button } from "~/components/ui/button";
@@ -20,8 +21,11 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     : { kind: "units", units: await listManagedUnits(orgId, viewer.person.id) };
   const options = await statusOptionsFor(orgId, viewer.org.timeZone);
   // The 12-month trend is cached (cachedRead) with the same key as on Reports: unit ids sorted.
+  // Not awaited: twelve assessments of a large organisation after a write take seconds, so the
+  // page streams without it and the chart follows when it is ready (at once when cached).
   const trendScope = { unitIds: scope.kind === "organisation" ? null : scope.units.map((u) => u.id).sort() };
-  const [team, trend] = await Promise.all([listTeam(orgId, scope, query, options), complianceTrend(orgId, trendScope, viewer.org.timeZone, options)]);
+  const trend = complianceTrend(orgId, trendScope, viewer.org.timeZone, options);
+  const team = await listTeam(orgId, scope, query, options);
   return {
     query: { ...query, page: team.page },
     scope: scope.kind === "organisation" ? { kind: "organisation" as const, units: [] } : { kind: "units" as const, units: scope.units.map((u) => u.name) },
@@ -109,7 +113,13 @@ export default function Team() {
         </nav>
       ) : null}
 
-      {noUnits ? null : <TrendChart trend={trend} heading="Compliance by unit over the past 12 months" />}
+      {noUnits ? null : (
+        <Suspense fallback={<p className="mt-10 text-muted">Working out the past 12 months…</p>}>
+          <Await resolve={trend} errorElement={<p className="mt-10">The 12-month trend could not be worked out just now; reload the page to try again.</p>}>
+            {(resolved) => <TrendChart trend={resolved} heading="Compliance by unit over the past 12 months" />}
+          </Await>
+        </Suspense>
+      )}
     </>
   );
 }
