@@ -185,7 +185,7 @@ function UnitCompliance({ compliance }: { compliance: Data["compliance"] }) {
               People
             </th>
             <th scope="col" className="py-2 pr-4 text-right">
-              Current
+              % Current
             </th>
             {STATUSES.map((s) => (
               <th key={s} scope="col" className="py-2 pr-4 text-right">
