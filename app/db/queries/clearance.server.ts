@@ -35,6 +35,7 @@ import { deriveClearances, type ClearanceCell, type ClearancePersonInput, type C
 import { calendarDateIn, type IsoDate, type StatusOptions } from "~/domain/status";
 import type { PlanAssignment, PlanCompletion, PlanCredential, PlanExtension, PlanWaiver } from "~/domain/status/plan";
 import { statusOptionsFor } from "./people.server";
+import { PLAN_REQUIREMENT_COLUMNS } from "./plan.server";
 
 export type BoardUnit = { id: string; name: string };
 export type BoardPerson = { id: string; name: string; title: string | null; homeUnitId: string | null; cells: ClearanceCell[] };
@@ -98,20 +99,7 @@ async function readBoardRows(orgId: string) {
       .from(personUnits)
       .where(and(eq(personUnits.orgId, orgId), eq(personUnits.relation, "member"))),
     db
-      .select({
-        id: requirements.id,
-        name: requirements.name,
-        kind: requirements.kind,
-        examId: requirements.examId,
-        checklistId: requirements.checklistId,
-        credentialTypeId: requirements.credentialTypeId,
-        recurrence: requirements.recurrence,
-        unitId: requirements.unitId,
-        role: requirements.role,
-        active: requirements.active,
-        graceDays: requirements.graceDays,
-        lapseLeaves: requirements.lapseLeaves,
-      })
+      .select({ ...PLAN_REQUIREMENT_COLUMNS, lapseLeaves: requirements.lapseLeaves })
       .from(requirements)
       .where(and(eq(requirements.orgId, orgId), eq(requirements.active, true)))
       .orderBy(asc(requirements.name)),

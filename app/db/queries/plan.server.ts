@@ -75,25 +75,28 @@ async function loadCompletions(orgId: string, personId: string, timeZone: string
  * The person's plan in due-date order, or null when `personId` is not a person of `orgId`.
  * `timeZone` is the organisation's: completion instants become its calendar dates.
  */
+/** The columns of a requirement the status engine's plan reads (app/domain/status/plan.ts, PlanRequirement). */
+export const PLAN_REQUIREMENT_COLUMNS = {
+  id: requirements.id,
+  name: requirements.name,
+  kind: requirements.kind,
+  examId: requirements.examId,
+  checklistId: requirements.checklistId,
+  credentialTypeId: requirements.credentialTypeId,
+  recurrence: requirements.recurrence,
+  unitId: requirements.unitId,
+  role: requirements.role,
+  active: requirements.active,
+  graceDays: requirements.graceDays,
+};
+
 export async function getPlan(orgId: string, personId: string, timeZone: string, options: StatusOptions): Promise<PlanRow[] | null> {
   const membership = await loadMembership(orgId, personId);
   if (!membership) return null;
   const { db } = await database();
   const [reqs, held, open, completions, personWaivers, personExtensions] = await Promise.all([
     db
-      .select({
-        id: requirements.id,
-        name: requirements.name,
-        kind: requirements.kind,
-        examId: requirements.examId,
-        checklistId: requirements.checklistId,
-        credentialTypeId: requirements.credentialTypeId,
-        recurrence: requirements.recurrence,
-        unitId: requirements.unitId,
-        role: requirements.role,
-        active: requirements.active,
-        graceDays: requirements.graceDays,
-      })
+      .select(PLAN_REQUIREMENT_COLUMNS)
       .from(requirements)
       .where(and(eq(requirements.orgId, orgId), eq(requirements.active, true)))
       .orderBy(asc(requirements.name)),
