@@ -7,7 +7,7 @@
  * pages show them as holding.
  */
 import { createHash } from "node:crypto";
-import { canonicalCheckoffContent, signatureMeaning } from "~/domain/checkoffs/record";
+import { canonicalCheckoffContent, signatureMeaning, type Outcome } from "~/domain/checkoffs/record";
 import { instantOn, type IsoDate } from "./calendar";
 import type { OrgContext } from "./catalogue";
 import { CHECKLISTS } from "./checklists";
@@ -64,22 +64,32 @@ export function addSignedCheckoff(
       updatedAt: signedAt,
     });
   }
-  const sign = (who: SeededPerson, role: "observer" | "acknowledgement", at: Date) =>
-    ctx.data.signatures.push({
-      id: ctx.id("signature", input.hire.key, input.checklistKey, role),
-      orgId: ctx.orgId,
-      signerId: who.id,
-      recordType: "checkoff",
-      recordId: checkoffId,
-      meaning: signatureMeaning(role, "competent"),
-      printedName: who.name,
-      credentialLetters: who.credentialLetters,
-      signedAt: at,
-      timeZone: input.timeZone,
-      contentHash,
-      method: "own-session",
-      createdAt: at,
-    });
-  sign(input.preceptor, "observer", signedAt);
-  sign(input.hire, "acknowledgement", acknowledgedAt);
+  const record = { checkoffId, outcome: "competent" as const, timeZone: input.timeZone, contentHash };
+  pushCheckoffSignature(ctx, { ...record, id: ctx.id("signature", input.hire.key, input.checklistKey, "observer"), who: input.preceptor, role: "observer", at: signedAt });
+  pushCheckoffSignature(ctx, { ...record, id: ctx.id("signature", input.hire.key, input.checklistKey, "acknowledgement"), who: input.hire, role: "acknowledgement", at: acknowledgedAt });
+}
+
+/**
+ * One signature of a seeded check-off, as the app records it when signed in its own session:
+ * the meaning from the record module, the signer's printed name and letters, the content hash.
+ */
+export function pushCheckoffSignature(
+  ctx: OrgContext,
+  s: { id: string; checkoffId: string; who: SeededPerson; role: "observer" | "acknowledgement"; outcome: Outcome; at: Date; timeZone: string; contentHash: string },
+): void {
+  ctx.data.signatures.push({
+    id: s.id,
+    orgId: ctx.orgId,
+    signerId: s.who.id,
+    recordType: "checkoff",
+    recordId: s.checkoffId,
+    meaning: signatureMeaning(s.role, s.outcome),
+    printedName: s.who.name,
+    credentialLetters: s.who.credentialLetters,
+    signedAt: s.at,
+    timeZone: s.timeZone,
+    contentHash: s.contentHash,
+    method: "own-session",
+    createdAt: s.at,
+  });
 }

@@ -11,10 +11,11 @@
  * (app/domain/checkoffs/record.ts), so the record pages show them as holding.
  */
 import { createHash } from "node:crypto";
-import { canonicalCheckoffContent, signatureMeaning, type Mark, type Outcome } from "~/domain/checkoffs/record";
+import { canonicalCheckoffContent, type Mark, type Outcome } from "~/domain/checkoffs/record";
 import { addDays, daysBetween, instantOn, type IsoDate } from "./calendar";
 import type { OrgContext } from "./catalogue";
 import { CHECKLISTS } from "./checklists";
+import { pushCheckoffSignature } from "./orientation-checkoffs";
 import type { KvPerson, KvRoster } from "./kestrel-valley";
 import { prngFor } from "./prng";
 import type { SeededPerson } from "./roster";
@@ -67,21 +68,7 @@ function addCheckoff(
     ctx.data.checkoffStepResults.push({ id: ctx.id("skill-checkoff-step", ...key, m.stepIndex), orgId: ctx.orgId, checkoffId, stepIndex: m.stepIndex, result: m.result, comment: m.comment, updatedAt: signedAt });
   }
   const sign = (who: SeededPerson, role: "observer" | "acknowledgement", at: Date) =>
-    ctx.data.signatures.push({
-      id: ctx.id("skill-signature", ...key, role),
-      orgId: ctx.orgId,
-      signerId: who.id,
-      recordType: "checkoff",
-      recordId: checkoffId,
-      meaning: signatureMeaning(role, input.outcome),
-      printedName: who.name,
-      credentialLetters: who.credentialLetters,
-      signedAt: at,
-      timeZone: input.timeZone,
-      contentHash,
-      method: "own-session",
-      createdAt: at,
-    });
+    pushCheckoffSignature(ctx, { id: ctx.id("skill-signature", ...key, role), checkoffId, who, role, outcome: input.outcome, at, timeZone: input.timeZone, contentHash });
   sign(input.observer, "observer", signedAt);
   sign(input.person, "acknowledgement", acknowledgedAt);
   if (input.outcome === "needs-practice") {
