@@ -10,7 +10,7 @@ import QRCode from "qrcode";
 import { CAUTION_TEXT } from "~/components/caution";
 import { formatLongCalendarDate } from "~/components/calendar-date";
 import type { IsoDate } from "~/domain/status";
-import { PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
+import { drawableText, PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
 
 /** '2026-12-02' → "2 December 2026" (no weekday on a certificate). */
 const longDate = (d: IsoDate) => formatLongCalendarDate(d).replace(/^\S+ /, "");
@@ -103,5 +103,5 @@ function Certificate({ d, qr }: { d: CertificatePdfData; qr: string }) {
 export async function renderCertificatePdf(d: CertificatePdfData): Promise<Buffer> {
   registerPdfFonts();
   const qr = await QRCode.toDataURL(d.verifyUrl, { errorCorrectionLevel: "M", margin: 2, scale: 8 });
-  return renderToBuffer(<Certificate d={d} qr={qr} />);
+  return renderToBuffer(<Certificate d={drawableText(d)} qr={qr} />);
 }

@@ -10,7 +10,7 @@ import { checkoffStatusWord } from "~/components/checkoffs/checkoff-status";
 import type { SignatureView } from "~/components/checkoffs/signature-block";
 import { methodLabel } from "~/domain/checkoffs/methods";
 import { manifestSignature, OUTCOME_WORDS, RESULT_WORDS } from "~/domain/checkoffs/record";
-import { PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
+import { drawableText, PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
 
 const INK = "#17302E";
 const MUTED = "#5B6B68";
@@ -118,5 +118,5 @@ function Record({ d }: { d: RecordViewData }) {
 
 export async function renderCheckoffRecordPdf(d: RecordViewData): Promise<Buffer> {
   registerPdfFonts();
-  return renderToBuffer(<Record d={d} />);
+  return renderToBuffer(<Record d={drawableText(d)} />);
 }

@@ -26,3 +26,19 @@ export function registerPdfFonts(): void {
   Font.registerHyphenationCallback((word) => [word]);
   registered = true;
 }
+
+/**
+ * Zero-width space (U+200B) and the byte-order mark / zero-width no-break space (U+FEFF) crash
+ * the renderer ("Offset is outside the bounds of the DataView" in fontkit: the latin .woff maps
+ * them to a glyph it cannot read). Both are invisible, so they are left out of every string a PDF
+ * draws; nothing visible changes. Plain objects and arrays are copied; other values are kept.
+ */
+const UNDRAWABLE = /[\u200B\uFEFF]/g;
+export function drawableText<T>(value: T): T {
+  if (typeof value === "string") return value.replace(UNDRAWABLE, "") as T;
+  if (Array.isArray(value)) return value.map((v) => drawableText(v)) as T;
+  if (value && typeof value === "object" && Object.getPrototypeOf(value) === Object.prototype) {
+    return Object.fromEntries(Object.entries(value).map(([k, v]) => [k, drawableText(v)])) as T;
+  }
+  return value;
+}

@@ -7,7 +7,7 @@
 import { Document, Page, renderToBuffer, StyleSheet, Text, View } from "@react-pdf/renderer";
 import type { ItemAnalysisView } from "~/db/queries/item-analysis.server";
 import { FLAG_TEXT } from "~/domain/psychometrics/form-analysis";
-import { PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
+import { drawableText, PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
 
 const INK = "#17302E";
 const MUTED = "#5B6B68";
@@ -118,5 +118,5 @@ function Report({ a, orgName }: { a: ItemAnalysisView; orgName: string }) {
 
 export async function renderItemAnalysisPdf(a: ItemAnalysisView, orgName: string): Promise<Buffer> {
   registerPdfFonts();
-  return renderToBuffer(<Report a={a} orgName={orgName} />);
+  return renderToBuffer(<Report a={drawableText(a)} orgName={drawableText(orgName)} />);
 }

@@ -6,7 +6,7 @@
 import { Document, Page, renderToBuffer, StyleSheet, Text, View } from "@react-pdf/renderer";
 import { CAUTION_TEXT } from "~/components/caution";
 import type { ReportTable } from "~/routes/reports/report-tables";
-import { PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
+import { drawableText, PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
 
 const INK = "#17302E";
 const MUTED = "#5B6B68";
@@ -92,5 +92,5 @@ function Report({ d }: { d: ReportPdfInput }) {
 
 export async function renderReportPdf(input: ReportPdfInput): Promise<Buffer> {
   registerPdfFonts();
-  return renderToBuffer(<Report d={input} />);
+  return renderToBuffer(<Report d={drawableText(input)} />);
 }

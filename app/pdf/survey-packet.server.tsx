@@ -11,7 +11,7 @@ import { STATUS_WORDS } from "~/components/ui/status-mark";
 import type { Packet, PacketPerson, PacketRequirement } from "~/db/queries/report-packet.server";
 import { CERTIFICATE_STATE_WORDS } from "~/domain/certificates/certificate";
 import { OUTCOME_WORDS } from "~/domain/checkoffs/record";
-import { PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
+import { drawableText, PDF_FONT_FAMILY, registerPdfFonts } from "./fonts.server";
 
 const INK = "#17302E";
 const MUTED = "#5B6B68";
@@ -156,5 +156,5 @@ function PacketDocument({ packet, orgName, generatedOn, timeZone }: { packet: Pa
 
 export async function renderSurveyPacketPdf(packet: Packet, orgName: string, generatedOn: string, timeZone: string): Promise<Buffer> {
   registerPdfFonts();
-  return renderToBuffer(<PacketDocument packet={packet} orgName={orgName} generatedOn={generatedOn} timeZone={timeZone} />);
+  return renderToBuffer(<PacketDocument packet={drawableText(packet)} orgName={drawableText(orgName)} generatedOn={generatedOn} timeZone={timeZone} />);
 }

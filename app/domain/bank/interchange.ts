@@ -26,6 +26,20 @@ export function exportJson(items: readonly ItemContent[]): string {
   return `${JSON.stringify({ format: "tidemark-items", version: 1, items: items.map(canonicalContent) }, null, 2)}\n`;
 }
 
+/**
+ * CSV cells a spreadsheet would run as a formula (OWASP, "CSV Injection": a leading =, +, -, @,
+ * tab or carriage return) are written with one more leading apostrophe, and a cell already
+ * starting with apostrophes before such a character gets one more too, so import can take exactly
+ * one away and export → import → export stays the same file.
+ */
+const ESCAPED_FORMULA = /^'*[=+\-@\t\r]/;
+function neutraliseFormula(cell: string): string {
+  return ESCAPED_FORMULA.test(cell) ? `'${cell}` : cell;
+}
+function restoreFormula(cell: string): string {
+  return cell.startsWith("'") && ESCAPED_FORMULA.test(cell) ? cell.slice(1) : cell;
+}
+
 export function exportCsv(items: readonly ItemContent[]): string {
   const rows = items.map(canonicalContent).map((c) => ({
     type: c.type,
@@ -36,7 +50,7 @@ export function exportCsv(items: readonly ItemContent[]): string {
     rationale: c.rationale,
     reference: c.reference,
   }));
-  return `${Papa.unparse({ fields: [...INTERCHANGE_COLUMNS], data: rows.map((r) => INTERCHANGE_COLUMNS.map((k) => r[k])) }, { newline: "\n" })}\n`;
+  return `${Papa.unparse({ fields: [...INTERCHANGE_COLUMNS], data: rows.map((r) => INTERCHANGE_COLUMNS.map((k) => neutraliseFormula(r[k]))) }, { newline: "\n" })}\n`;
 }
 
 function checkRows(raw: unknown[], firstRow: number): ParsedImport {
@@ -85,7 +99,7 @@ function jsonCell(value: string, field: string, errors: string[]): unknown {
 }
 
 export function parseCsvImport(textIn: string): ParsedImport {
-  const result = Papa.parse<Record<string, string>>(textIn.replace(/^\uFEFF/, ""), { header: true, skipEmptyLines: "greedy" });
+  const result = Papa.parse<Record<string, string>>(textIn.replace(/^\uFEFF/, ""), { header: true, skipEmptyLines: "greedy", transform: restoreFormula });
   const fields = result.meta.fields ?? [];
   const missing = INTERCHANGE_COLUMNS.filter((c) => !fields.includes(c));
   if (missing.length) return fileError(`The CSV file is missing the column${missing.length > 1 ? "s" : ""} ${missing.join(", ")}. The first line must name: ${INTERCHANGE_COLUMNS.join(", ")}.`);

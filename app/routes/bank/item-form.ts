@@ -68,13 +68,13 @@ export const itemFormSchema = z
     switch (f.kind) {
       case "single": {
         const c = numbersIn(f.correct);
-        if (c.length !== 1 || !Number.isInteger(c[0])) fail("correct", "Enter the number of the one correct option, like 2.");
+        if (c.length !== 1 || !Number.isInteger(c[0]) || c[0] < 1) fail("correct", "Enter the number of the one correct option, like 2.");
         candidate = { ...base, type: "single", body: { kind: "single", options: lines(f.options), correct: c[0] - 1 } };
         break;
       }
       case "multiple": {
         const c = numbersIn(f.correct);
-        if (c.length === 0 || c.some((n) => !Number.isInteger(n))) fail("correct", "Enter the numbers of the correct options, like 1, 3.");
+        if (c.length === 0 || c.some((n) => !Number.isInteger(n) || n < 1)) fail("correct", "Enter the numbers of the correct options, like 1, 3.");
         candidate = { ...base, type: "multiple", body: { kind: "multiple", options: lines(f.options), correct: [...new Set(c)].sort((a, b) => a - b).map((n) => n - 1) } };
         break;
       }

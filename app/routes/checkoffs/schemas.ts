@@ -19,7 +19,11 @@ export const CHECKOFF_INTENTS = {
 export const INDEX_INTENTS = { request: "request", startFor: "start-for" } as const;
 
 export const markStepSchema = z.object({
-  stepIndex: z.coerce.number().int().min(0),
+  // Parsed from the raw form data: `z.coerce.number` would read a blank field as step 0 (Number("") is 0).
+  stepIndex: z
+    .string({ message: "Which step? Reload the page and try again." })
+    .regex(/^\d{1,4}$/, "Which step? Reload the page and try again.")
+    .transform(Number),
   result: z.enum(["met", "not-met", "not-applicable"], { message: "Choose met, not met or not applicable." }),
   comment: z.string().trim().max(2000, "Keep the comment under 2,000 characters.").optional(),
 });

@@ -23,7 +23,11 @@ const answerSchema: z.ZodType<SubmittedAnswer> = z.discriminatedUnion("kind", [
 ]);
 
 const saveSchema = z.object({
-  position: z.coerce.number({ error: "Say which question this answer is for." }).int().min(0),
+  // A blank position must not read as the first question (Number("") is 0).
+  position: z
+    .string({ error: "Say which question this answer is for." })
+    .regex(/^\d{1,4}$/, "Say which question this answer is for.")
+    .transform(Number),
   answer: z.string().max(2000).optional(),
   flagged: z.enum(["true", "false"]).optional(),
 });
