@@ -123,6 +123,7 @@ export async function insertDataset(tx: Tx, data: Dataset): Promise<void> {
   await insertRows(tx, schema.checklists, data.checklists);
   await insertRows(tx, schema.checklistVersions, data.checklistVersions);
   await insertRows(tx, schema.requirements, data.requirements);
+  await insertRows(tx, schema.files, data.files);
   await insertRows(tx, schema.credentials, data.credentials);
   await insertRows(tx, schema.waivers, data.waivers);
   await insertRows(tx, schema.assignments, data.assignments);

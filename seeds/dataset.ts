@@ -12,6 +12,7 @@ import type {
   credentialTypes,
   exams,
   examVersions,
+  files,
   items,
   itemVersions,
   itemVersionTopics,
@@ -50,6 +51,8 @@ export type Dataset = {
   checklists: (typeof checklists.$inferInsert)[];
   checklistVersions: (typeof checklistVersions.$inferInsert)[];
   requirements: (typeof requirements.$inferInsert)[];
+  /** Seeded uploads (credential scans, seeds/scans.ts); their bytes are written by writeSeededFiles. */
+  files: (typeof files.$inferInsert)[];
   credentials: (typeof credentials.$inferInsert)[];
   waivers: (typeof waivers.$inferInsert)[];
   assignments: (typeof assignments.$inferInsert)[];
@@ -83,6 +86,7 @@ export function emptyDataset(): Dataset {
     checklists: [],
     checklistVersions: [],
     requirements: [],
+    files: [],
     credentials: [],
     waivers: [],
     assignments: [],

@@ -42,6 +42,7 @@ import { DEMO_BANK } from "./bank";
 import type { OrgContext } from "./catalogue";
 import type { KvRoster } from "./kestrel-valley";
 import { prngFor, type Prng } from "./prng";
+import type { SeededPerson } from "./roster";
 
 /** Items written to misbehave, by bank key (seeds/bank/). */
 export const FLAWED_ITEMS = {
@@ -65,7 +66,7 @@ const SETTLING_IN_DAYS = 30;
 
 type ItemModel = { a: number; b: number; guess: number; distractorWeights: number[] };
 
-function normal(prng: Prng): number {
+export function normal(prng: Prng): number {
   // Box–Muller transform (Box GEP, Muller ME, Ann Math Stat 1958;29:610–611 — from memory).
   const u = Math.max(prng.next(), 1e-12);
   return Math.sqrt(-2 * Math.log(u)) * Math.cos(2 * Math.PI * prng.next());
@@ -189,8 +190,12 @@ function seededPool(ctx: OrgContext): PoolRow[] {
   return rows;
 }
 
-/** Adds the graded sittings of one exam version (the annual modes exam's version 1). */
-export function addExamHistory(ctx: OrgContext, roster: KvRoster, exam: { examId: string; versionId: string }): void {
+/**
+ * A builder of graded sittings of one exam version, done the way a real sitting is (the steps
+ * above). `streams` names the organisation's generator streams ("kv", "ab"), so each
+ * organisation's sittings are deterministic and independent of the other's.
+ */
+export function gradedSittings(ctx: OrgContext, exam: { examId: string; versionId: string }, streams: string) {
   const bankKeys = new Map(DEMO_BANK.map((d) => [ctx.id("item", d.key), d.key]));
   const version = ctx.data.examVersions.find((v) => v.id === exam.versionId);
   if (!version) throw new Error(`no exam version ${exam.versionId}`);
@@ -200,12 +205,10 @@ export function addExamHistory(ctx: OrgContext, roster: KvRoster, exam: { examId
   const models = new Map(pool.map((p) => [p.itemId, itemModel(p.key, p.content)]));
   const policy = { multiple: version.multipleResponseScoring ?? "all-or-nothing", ordering: version.orderingScoring ?? "exact" } as const;
   const shuffleOptions = version.shuffleOptions ?? true;
-  const demo = new Set(Object.values(roster.demo).map((p) => p.id));
-  const newHires = new Set(roster.newHires.map((p) => p.id));
-  const candidates = roster.therapists.filter((p) => !demo.has(p.id) && !newHires.has(p.id));
 
-  const sit = (person: KvRoster["therapists"][number], cycle: string, attemptNumber: number, on: IsoDate, theta: number) => {
-    const prng = prngFor(`kv:exam-history:${person.key}:${cycle}:${attemptNumber}`);
+  /** One graded sitting of `person` on the day `on` by an examinee of ability `theta`; true when passed. */
+  return (person: SeededPerson, cycle: string, attemptNumber: number, on: IsoDate, theta: number): boolean => {
+    const prng = prngFor(`${streams}:exam-history:${person.key}:${cycle}:${attemptNumber}`);
     const seed = prng.int(1, 2 ** 31 - 1);
     const form = drawForm(blueprint, pool, seed, { shuffleItems: version.shuffleItems ?? true });
     const attemptId = ctx.id("attempt", "annual-modes", person.key, cycle, attemptNumber);
@@ -266,6 +269,14 @@ export function addExamHistory(ctx: OrgContext, roster: KvRoster, exam: { examId
     });
     return score.passed;
   };
+}
+
+/** Adds the graded sittings of one exam version (the annual modes exam's version 1). */
+export function addExamHistory(ctx: OrgContext, roster: KvRoster, exam: { examId: string; versionId: string }): void {
+  const sit = gradedSittings(ctx, exam, "kv");
+  const demo = new Set(Object.values(roster.demo).map((p) => p.id));
+  const newHires = new Set(roster.newHires.map((p) => p.id));
+  const candidates = roster.therapists.filter((p) => !demo.has(p.id) && !newHires.has(p.id));
 
   for (const cycle of CYCLES) {
     const earliest = addMonths(ctx.today, -cycle.fromMonths);

@@ -3,6 +3,7 @@
  * file:./data/tidemark.db) and builds the demo scenario in it. Running it again with the same
  * flags leaves the same database.
  */
+import path from "node:path";
 import { parseArgs } from "node:util";
 import { openDatabase } from "../app/db/client.server";
 import { isIsoDate } from "./calendar";
@@ -53,7 +54,7 @@ function printSummary(url: string, summary: SeedSummary, ms: number): void {
   }
   console.log("Demo accounts (sign in with the e-mailed code):");
   for (const a of summary.demoAccounts) console.log(`  ${a.email.padEnd(32)} ${a.name} — ${a.roles.join(", ")}`);
-  console.log("  admin@alderbay.test              Alder Bay Hospital — admin (a separate organisation)");
+  console.log("  admin@alderbay.test              Alder Bay Hospital — admin (a separate organisation; it has every role)");
 }
 
 const options = parseOptions(process.argv.slice(2));
@@ -61,7 +62,9 @@ const url = process.env.DATABASE_URL ?? "file:./data/tidemark.db";
 const started = performance.now();
 const database = await openDatabase(url);
 try {
-  const summary = await seed(database, options);
+  // Uploads live in DATA_DIR/files, as app/files/store.server.ts keeps them.
+  const filesDir = path.join(path.resolve(process.env.DATA_DIR ?? "data"), "files");
+  const summary = await seed(database, { ...options, filesDir });
   printSummary(url, summary, performance.now() - started);
 } finally {
   database.close();

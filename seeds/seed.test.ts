@@ -1,4 +1,6 @@
-import { mkdtempSync, rmSync } from "node:fs";
+import { execFileSync } from "node:child_process";
+import { createHash } from "node:crypto";
+import { mkdtempSync, readFileSync, rmSync } from "node:fs";
 import { tmpdir } from "node:os";
 import path from "node:path";
 import { addDays, format, parseISO } from "date-fns";
@@ -249,5 +251,38 @@ describe("demo scenario seed", () => {
     await seed(d, { today: TODAY });
     const [after] = await rows(d, "SELECT count(*) AS n FROM people WHERE org_id = ?", [kv]);
     expect(Number(after.n)).toBe(42);
+  });
+  it("gives Alder Bay every role and records of each kind, with its scans written where the app reads them", async () => {
+    const d = await freshDatabase("alder-bay-records");
+    const filesDir = path.join(dir, "files");
+    await seed(d, { today: TODAY, filesDir });
+    const ab = await orgId(d, "alder-bay");
+    const roles = await rows(d, "SELECT role, count(*) AS n FROM person_roles WHERE org_id = ? GROUP BY role ORDER BY role", [ab]);
+    // Two educators: bank items are written by one and approved by the other.
+    expect(roles).toEqual([
+      { role: "admin", n: 1 },
+      { role: "educator", n: 2 },
+      { role: "manager", n: 1 },
+      { role: "preceptor", n: 1 },
+      { role: "therapist", n: 7 },
+    ]);
+    const one = async (sql: string) => Number((await rows(d, sql, [ab]))[0]?.n);
+    expect(await one("SELECT count(*) AS n FROM attempts WHERE org_id = ? AND submitted_at IS NOT NULL AND score_percent IS NOT NULL")).toBe(4);
+    expect(await one("SELECT count(*) AS n FROM checkoffs WHERE org_id = ? AND status = 'acknowledged' AND signed_at IS NOT NULL")).toBe(3);
+    expect(await one("SELECT count(*) AS n FROM certificates WHERE org_id = ?")).toBe(3);
+    // Each check-off's signer is Alder Bay's preceptor, never the person observed.
+    expect(await one(`SELECT count(*) AS n FROM checkoffs c JOIN person_roles r ON r.person_id = c.preceptor_id AND r.role = 'preceptor'
+      WHERE c.org_id = ? AND c.preceptor_id <> c.person_id`)).toBe(3);
+
+    const scans = await rows(d, "SELECT f.storage_path, f.sha256, f.size_bytes FROM credentials c JOIN files f ON f.id = c.scan_file_id WHERE c.org_id = ? ORDER BY f.id", [ab]);
+    expect(scans).toHaveLength(7);
+    for (const scan of scans) {
+      const file = path.join(filesDir, String(scan.storage_path));
+      const bytes = readFileSync(file);
+      expect(bytes.length).toBe(Number(scan.size_bytes));
+      expect(createHash("sha256").update(bytes).digest("hex")).toBe(scan.sha256);
+      // Read back by an independent PDF reader (poppler's pdftotext): a real one-page PDF.
+      expect(execFileSync("pdftotext", [file, "-"]).toString()).toMatch(/^Demo scan: state-licence-AB-\d{4}\.pdf/);
+    }
   });
 });

@@ -16,12 +16,18 @@ import { instantOn, isIsoDate, todayIn, type IsoDate } from "./calendar";
 import { dateStatus, type DateStatus } from "./credential-dates";
 import { countRows, type Dataset } from "./dataset";
 import { buildKestrelValley, DEMO_ACCOUNTS, KESTREL_VALLEY } from "./kestrel-valley";
+import { writeSeededFiles } from "./scans";
 
 export type SeedOptions = {
   /** The demo day, YYYY-MM-DD in Kestrel Valley's time zone; statuses are relative to it. */
   today: IsoDate;
   /** Kestrel Valley's head count (default 42); larger values build a benchmark hospital. */
   people?: number;
+  /**
+   * Where uploads live (DATA_DIR/files): the seeded scans' bytes are written there after the
+   * database. Without it only their rows are written (tests that never open a scan).
+   */
+  filesDir?: string;
 };
 
 export type OrganisationSummary = {
@@ -95,6 +101,8 @@ export async function seed(database: Pick<Database, "write">, options: SeedOptio
     }
     return out;
   });
+
+  if (options.filesDir) await writeSeededFiles(options.filesDir, [kv.data, ab.data]);
 
   const demoAccounts = Object.values(DEMO_ACCOUNTS).map((email) => {
     const person = kv.data.people.find((p) => p.email === email);

@@ -17,7 +17,12 @@ export function notFound(message = "We could not find that page.", signedIn = fa
 
 function signInRedirect(request: Request): never {
   const url = new URL(request.url);
-  const next = url.pathname.replace(/\.data$/, "") + url.search.replace(/[?&]_routes=[^&]*/, "");
+  // A client data request (`/x.data?_routes=…&person=…`) comes back to its page (`/x?person=…`):
+  // only React Router's own parameter is dropped, and the rest keeps its leading "?".
+  const query = new URLSearchParams(url.search);
+  query.delete("_routes");
+  const search = query.toString();
+  const next = url.pathname.replace(/\.data$/, "") + (search ? `?${search}` : "");
   throw redirect(`/login?next=${encodeURIComponent(next)}`);
 }
 

@@ -25,11 +25,54 @@ export type Access =
       permission: Permission;
       note?: string;
       /**
-       * The record is further limited to its owner or their managers: a permitted person who
-       * is neither gets the same 404 as for a record that does not exist (no probing of ids).
+       * The route opens one person's record (an attempt, a check-off, a scan, a certificate…):
+       * a permitted person whom `record` does not let open it gets the same 404 as for a record
+       * that does not exist (no probing of ids). Every record-scoped row states its `record` rule.
        */
       recordScoped?: true;
+      record?: RecordRule;
     };
+
+/** The kinds of record a record-scoped route opens (the e2e matrix looks them up by kind). */
+export const RECORD_KINDS = ["attempt", "checkoff", "checkoff-evidence", "credential-scan", "certificate", "person-requirement", "person"] as const;
+export type RecordKind = (typeof RECORD_KINDS)[number];
+
+/**
+ * Who opens a record-scoped route's record. A record of another organisation is never opened:
+ * every permitted viewer gets 404, as for a record that does not exist (OWASP ASVS 4.0.3 V4.2.1,
+ * insecure direct object references).
+ */
+export type RecordRule = {
+  record: RecordKind;
+  /**
+   * The person the record belongs to: "opens" it (200; the taking page of a closed attempt sends
+   * its owner to the result instead); "post-only" — a GET answers 404 to everyone, the route
+   * only takes POST; "like-others" — the owner is judged by `others` like anyone else.
+   */
+  owner: "opens" | "post-only" | "like-others";
+  /** Who opens the record of another person of the viewer's organisation. */
+  others: OthersRule;
+};
+
+export type OthersRule =
+  /** Nobody but the owner. */
+  | { who: "nobody" }
+  /** Anyone of the organisation holding one of these permissions. */
+  | { who: "organisation"; anyOf: readonly Permission[] }
+  /**
+   * Holders of `permission` for the people on a unit they manage (home or member unit);
+   * holders of a `wholeOrganisation` role (with the permission) for everyone of the organisation.
+   */
+  | { who: "managed-units"; permission: Permission; wholeOrganisation?: readonly Role[] };
+
+/** The record rules used by several rows. */
+const OWN_ONLY: OthersRule = { who: "nobody" };
+/** mayActFor (app/db/queries/credentials.server.ts): the holder, or a manager of one of their units. */
+const HOLDER_OR_MANAGER: OthersRule = { who: "managed-units", permission: "credentials:verify" };
+/** matrixScopeFor (app/db/queries/team-matrix.server.ts): educators the whole organisation, managers their units. */
+const TEAM_SCOPE = (permission: Permission): OthersRule => ({ who: "managed-units", permission, wholeOrganisation: ["educator"] });
+/** canViewCheckoff (app/auth/checkoff-policy.ts): own, preceptors, educators and managers. */
+const CHECKOFF_READERS: OthersRule = { who: "organisation", anyOf: ["checkoffs:observe", "checklists:write", "team:read"] };
 
 export const ROUTE_ACCESS: Record<string, Access> = {
   "/": { who: "public", note: "redirects to /today or /login" },
@@ -68,12 +111,12 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   "/reports/completions.csv": { who: "permission", permission: "reports:read" },
   "/reports/completions.pdf": { who: "permission", permission: "reports:read" },
   "/reports/packet": { who: "permission", permission: "reports:read", note: "choose one person or a unit for the survey evidence packet" },
-  "/reports/packet.pdf": { who: "permission", permission: "reports:read", recordScoped: true, note: "the survey evidence packet; ?person= or ?unit=; 404 without one, or for a person or unit outside the viewer's organisation" },
+  "/reports/packet.pdf": { who: "permission", permission: "reports:read", recordScoped: true, record: { record: "person", owner: "like-others", others: TEAM_SCOPE("reports:read") }, note: "the survey evidence packet; ?person= or ?unit=; 404 without one, or for a person or unit outside the viewer's organisation" },
   "/exams": { who: "permission", permission: "section:exams", note: "own assignments, exams open to take and own history" },
   "/exams/:examId/start": { who: "permission", permission: "section:exams", note: "404 for an exam not published in the viewer's organisation" },
-  "/exams/attempts/:attemptId": { who: "permission", permission: "section:exams", recordScoped: true, note: "404 unless the viewer's own attempt" },
-  "/exams/attempts/:attemptId/answers": { who: "permission", permission: "section:exams", recordScoped: true, note: "POST only: saves one answer of the viewer's own open attempt" },
-  "/exams/attempts/:attemptId/result": { who: "permission", permission: "section:exams", recordScoped: true, note: "404 unless the viewer's own attempt, or an educator of the organisation" },
+  "/exams/attempts/:attemptId": { who: "permission", permission: "section:exams", recordScoped: true, record: { record: "attempt", owner: "opens", others: OWN_ONLY }, note: "404 unless the viewer's own attempt; a closed one sends its owner to the result" },
+  "/exams/attempts/:attemptId/answers": { who: "permission", permission: "section:exams", recordScoped: true, record: { record: "attempt", owner: "post-only", others: OWN_ONLY }, note: "POST only: saves one answer of the viewer's own open attempt" },
+  "/exams/attempts/:attemptId/result": { who: "permission", permission: "section:exams", recordScoped: true, record: { record: "attempt", owner: "opens", others: { who: "organisation", anyOf: ["bank:write"] } }, note: "404 unless the viewer's own attempt, or an educator of the organisation" },
   "/bench": { who: "permission", permission: "section:bench" },
   "/team": { who: "permission", permission: "section:team" },
   "/team/requirements": { who: "permission", permission: "team:read" },
@@ -83,6 +126,7 @@ export const ROUTE_ACCESS: Record<string, Access> = {
     who: "permission",
     permission: "team:read",
     recordScoped: true,
+    record: { record: "person-requirement", owner: "like-others", others: TEAM_SCOPE("team:read") },
     note: "404 outside the viewer's units or when the requirement does not apply; waivers and extensions need team:manage",
   },
   "/team/accommodations": { who: "permission", permission: "exams:accommodate", note: "educators and managers: extra time or an untimed sitting" },
@@ -91,10 +135,11 @@ export const ROUTE_ACCESS: Record<string, Access> = {
     who: "permission",
     permission: "section:credentials",
     recordScoped: true,
+    record: { record: "certificate", owner: "opens", others: HOLDER_OR_MANAGER },
     note: "404 unless the holder or a manager of their unit; managers revoke (credentials:verify)",
   },
-  "/credentials/certificates/:certificateId/certificate.pdf": { who: "permission", permission: "section:credentials", recordScoped: true, note: "404 unless the holder or a manager of their unit" },
-  "/credentials/:credentialId/scan": { who: "permission", permission: "section:credentials", recordScoped: true, note: "404 unless the holder or a manager of their unit" },
+  "/credentials/certificates/:certificateId/certificate.pdf": { who: "permission", permission: "section:credentials", recordScoped: true, record: { record: "certificate", owner: "opens", others: HOLDER_OR_MANAGER }, note: "404 unless the holder or a manager of their unit" },
+  "/credentials/:credentialId/scan": { who: "permission", permission: "section:credentials", recordScoped: true, record: { record: "credential-scan", owner: "opens", others: HOLDER_OR_MANAGER }, note: "404 unless the holder or a manager of their unit" },
   "/bank": { who: "permission", permission: "section:bank" },
   "/bank/items/new": { who: "permission", permission: "section:bank" },
   "/bank/items/:itemId": { who: "permission", permission: "section:bank", note: "unpublished items too: educators only" },
@@ -115,10 +160,10 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   "/checkoffs/orientation": { who: "permission", permission: "section:checkoffs", note: "own plan; a preceptor's orientees; managers and educators all" },
   "/checkoffs/checklists": { who: "permission", permission: "section:checkoffs", note: "educators write (checklists:write); others read" },
   "/checkoffs/checklists/:checklistId": { who: "permission", permission: "section:checkoffs", note: "educators write (checklists:write); others read" },
-  "/checkoffs/:checkoffId": { who: "permission", permission: "section:checkoffs", note: "404 unless canViewCheckoff (own, preceptor, educator, manager)" },
-  "/checkoffs/:checkoffId/print": { who: "permission", permission: "section:checkoffs", note: "404 unless canViewCheckoff" },
-  "/checkoffs/:checkoffId/record.pdf": { who: "permission", permission: "section:checkoffs", note: "404 unless canViewCheckoff" },
-  "/checkoffs/:checkoffId/evidence/:evidenceId": { who: "permission", permission: "section:checkoffs", note: "404 unless canViewCheckoff" },
+  "/checkoffs/:checkoffId": { who: "permission", permission: "section:checkoffs", recordScoped: true, record: { record: "checkoff", owner: "opens", others: CHECKOFF_READERS }, note: "404 unless canViewCheckoff (own, preceptor, educator, manager)" },
+  "/checkoffs/:checkoffId/print": { who: "permission", permission: "section:checkoffs", recordScoped: true, record: { record: "checkoff", owner: "opens", others: CHECKOFF_READERS }, note: "404 unless canViewCheckoff" },
+  "/checkoffs/:checkoffId/record.pdf": { who: "permission", permission: "section:checkoffs", recordScoped: true, record: { record: "checkoff", owner: "opens", others: CHECKOFF_READERS }, note: "404 unless canViewCheckoff" },
+  "/checkoffs/:checkoffId/evidence/:evidenceId": { who: "permission", permission: "section:checkoffs", recordScoped: true, record: { record: "checkoff-evidence", owner: "opens", others: CHECKOFF_READERS }, note: "404 unless canViewCheckoff" },
   "/admin": { who: "permission", permission: "section:admin" },
   "/admin/units": { who: "permission", permission: "section:admin" },
   "/admin/people": { who: "permission", permission: "section:admin" },
@@ -151,4 +196,34 @@ export function mayUse(access: Access, roles: readonly Role[] | null): boolean {
 /** Roles that may use a route, for the README and reports (none for a token route: a token, not a role, opens it). */
 export function rolesFor(access: Access): Role[] {
   return ROLES.filter((r) => mayUse(access, [r]));
+}
+
+/** What a viewer is to one record of a record-scoped route. */
+export type RecordViewer = {
+  roles: readonly Role[];
+  /** The record belongs to the viewer's organisation. */
+  sameOrganisation: boolean;
+  /** The record is the viewer's own. */
+  isOwner: boolean;
+  /** The record's person is on a unit the viewer manages (home or member unit). */
+  managesOwner: boolean;
+};
+
+/**
+ * Does a GET of the record open it (true) or answer 404 (false)? Only for viewers `mayUse`
+ * already lets through; the others are refused before any record is looked up.
+ */
+export function opensRecord(rule: RecordRule, viewer: RecordViewer): boolean {
+  if (!viewer.sameOrganisation || rule.owner === "post-only") return false;
+  if (viewer.isOwner && rule.owner === "opens") return true;
+  const others = rule.others;
+  switch (others.who) {
+    case "nobody":
+      return false;
+    case "organisation":
+      return others.anyOf.some((permission) => can(viewer.roles, permission));
+    case "managed-units":
+      if (!can(viewer.roles, others.permission)) return false;
+      return viewer.roles.some((role) => others.wholeOrganisation?.includes(role)) || viewer.managesOwner;
+  }
 }

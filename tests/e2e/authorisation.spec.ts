@@ -1,35 +1,43 @@
 /**
  * The authorisation table, proven against the running production build: every route pattern
- * of app/routes.ts is requested as an anonymous visitor, as each of the five Kestrel Valley
- * demo roles and as Alder Bay's admin — as a document, and as a client data request for each
- * route of its match alone (`<path>.data?_routes=<id>`; "/" is "/_root.data"), because a check
- * in a parent layout's loader would not protect a child requested alone (shared/STACK.md,
- * "Auth gates"). The answer must agree with ROUTE_ACCESS (app/auth/route-access.ts).
+ * of app/routes.ts is requested as an anonymous visitor and as each of the five roles of each of
+ * the two demo organisations (Kestrel Valley's demo accounts; Alder Bay's admin and the first
+ * holder of each other role) — as a document, and as a client data request for each route of its
+ * match alone (`<path>.data?_routes=<id>`; "/" is "/_root.data"), because a check in a parent
+ * layout's loader would not protect a child requested alone (shared/STACK.md, "Auth gates").
+ *
+ * A route with parameters is asked for the identity's organisation's rows and for the other
+ * organisation's (a permitted viewer gets 404 for the latter). A record-scoped route is asked
+ * for the identity's own record (where they have one), another person's of their organisation
+ * and another organisation's, and the exact answer — opened or 404 — follows the route's
+ * `record` rule (app/auth/route-access.ts, opensRecord). The answers must agree with
+ * ROUTE_ACCESS; every disagreement is one line of one failure report per identity.
  * OWASP ASVS 4.0.3 V4.1.1 (access enforced on the server), V4.1.3 (least privilege), V4.1.5
- * (deny by default).
+ * (deny by default), V4.2.1 (insecure direct object references).
  */
 import { request as playwrightRequest, type APIRequestContext } from "@playwright/test";
-import { ROUTE_ACCESS, type Access } from "../../app/auth/route-access";
-import { can, isRole, type Role } from "../../app/auth/roles";
+import { opensRecord, ROUTE_ACCESS, type Access } from "../../app/auth/route-access";
+import { can, isRole, ROLES, type Role } from "../../app/auth/roles";
 import { seededChecklistId, seededCheckoffId, seededEvidenceId } from "../fixtures/checkoffs";
 import { seededItemId } from "../fixtures/bank";
 import { seededAttemptId, seededExamId } from "../fixtures/exams";
 import { seededCertificateCode, seededCertificateId } from "../fixtures/certificates";
 import { seededCredentialId, seededRequirementId } from "../fixtures/credentials";
 import { firstPersonId, insertSession, one, rolesOf } from "../fixtures/e2e-db";
-import { APP_URL, DEMO, type DemoKey } from "../fixtures/e2e-env";
+import { APP_URL } from "../fixtures/e2e-env";
+import { managesPerson, ORGS, otherOrg, ownRecord, roleHolder, someoneElsesRecord, type OrgSlug, type RecordRef } from "../fixtures/records";
 import { builtRouteManifest } from "../fixtures/route-manifest";
 import { routePatterns, type RoutePattern } from "../fixtures/route-patterns";
 import { SESSION_COOKIE, signedSessionValue } from "../fixtures/session-cookie";
 import { expect, test } from "../fixtures/test";
 
-type Identity = { label: string; org: "kestrel-valley" | "alder-bay"; roles: Role[] | null; cookie?: string };
+type Identity = { label: string; org: OrgSlug; roles: Role[] | null; personId: string | null; cookie?: string };
 
 /**
- * A real seeded value for each route parameter, from the identity's own organisation. A new
- * parameter without a row here fails the test, so a later route cannot go unchecked.
+ * A real seeded value for each route parameter, from an organisation. A new parameter without a
+ * row here fails the test, so a later route cannot go unchecked.
  */
-const PARAMS: Record<string, (org: Identity["org"]) => Promise<string>> = {
+const PARAMS: Record<string, (org: OrgSlug) => Promise<string>> = {
   personId: (org) => firstPersonId(org),
   checkoffId: (org) => seededCheckoffId(org),
   checklistId: (org) => seededChecklistId(org),
@@ -49,13 +57,17 @@ const PARAMS: Record<string, (org: Identity["org"]) => Promise<string>> = {
 /** A catch-all segment that no route claims. */
 const UNMATCHED = "no-such-page-e2e";
 
-async function concretePath(pattern: string, org: Identity["org"]): Promise<string> {
+const paramNames = (pattern: string) => pattern.split("/").filter((s) => s.startsWith(":")).map((s) => s.replace(/^:/, "").replace(/\?$/, ""));
+
+/** The pattern with its parameters filled from `values` (or PARAMS for the organisation). */
+async function concretePath(pattern: string, org: OrgSlug, values: Record<string, string> = {}): Promise<string> {
   if (pattern === "*") return `/${UNMATCHED}`;
   const parts = await Promise.all(
     pattern.split("/").map(async (segment) => {
       if (segment === "*") return UNMATCHED;
       if (!segment.startsWith(":")) return segment;
       const name = segment.replace(/^:/, "").replace(/\?$/, "");
+      if (values[name] !== undefined) return encodeURIComponent(values[name]);
       const resolve = PARAMS[name];
       if (!resolve) throw new Error(`No seeded value for the route parameter :${name} of ${pattern}: add one to PARAMS`);
       return encodeURIComponent(await resolve(org));
@@ -64,13 +76,22 @@ async function concretePath(pattern: string, org: Identity["org"]): Promise<stri
   return parts.join("/") || "/";
 }
 
-function dataUrl(path: string, routeId: string): string {
+function dataUrl(path: string, routeId: string, search = ""): string {
   const base = path === "/" ? "/_root.data" : `${path.replace(/\/$/, "")}.data`;
-  return `${base}?_routes=${encodeURIComponent(routeId)}`;
+  const extra = search ? `&${search.replace(/^\?/, "")}` : "";
+  return `${base}?_routes=${encodeURIComponent(routeId)}${extra}`;
 }
 
-type Expected = { kind: "any-but-denied" } | { kind: "ok" } | { kind: "ok-or-not-found" } | { kind: "forbidden" } | { kind: "sign-in" } | { kind: "token" };
+type Expected =
+  | { kind: "any-but-denied" }
+  | { kind: "ok" }
+  | { kind: "not-found" }
+  | { kind: "redirect"; to: string }
+  | { kind: "forbidden" }
+  | { kind: "sign-in" }
+  | { kind: "token" };
 
+/** What the table says before any record is looked up. */
 function expectedFor(access: Access, roles: Role[] | null): Expected {
   switch (access.who) {
     case "public":
@@ -86,9 +107,7 @@ function expectedFor(access: Access, roles: Role[] | null): Expected {
       return { kind: "token" };
     case "permission":
       if (!roles) return { kind: "sign-in" };
-      if (!can(roles, access.permission)) return { kind: "forbidden" };
-      // A record-scoped route answers a permitted person who is not its owner (or their manager) with 404.
-      return access.recordScoped ? { kind: "ok-or-not-found" } : { kind: "ok" };
+      return can(roles, access.permission) ? { kind: "ok" } : { kind: "forbidden" };
   }
 }
 
@@ -98,23 +117,24 @@ type Answer = { status: number; location: string | null; body: string };
 function judge(expected: Expected, answer: Answer, asData: boolean, path: string, loadedId: string | null): string | null {
   const { status, location, body } = answer;
   const signInTarget = `/login?next=${encodeURIComponent(path)}`;
+  const got = `got ${status}${location ? ` → ${location}` : ""}`;
   switch (expected.kind) {
     case "any-but-denied":
       if (status === 401 || status === 403) return `expected public, got ${status}`;
       if (status >= 500) return `expected public, got a server error ${status}`;
       return null;
     case "ok":
-      if (status !== 200) return `expected 200, got ${status}${location ? ` → ${location}` : ""}`;
+      if (status !== 200) return `expected 200, ${got}`;
       // A data request that loaded nothing would pass vacuously: the route's own data must be in it.
       if (asData && loadedId && !body.includes(JSON.stringify(loadedId))) return `200 without the data of ${loadedId}`;
       return null;
-    case "ok-or-not-found":
-      if (status === 404) return null;
-      if (status !== 200) return `expected 200 or 404, got ${status}${location ? ` → ${location}` : ""}`;
-      if (asData && loadedId && !body.includes(JSON.stringify(loadedId))) return `200 without the data of ${loadedId}`;
-      return null;
+    case "not-found":
+      return status === 404 ? null : `expected 404, ${got}`;
+    case "redirect":
+      if (asData) return status === 202 && body.includes(JSON.stringify(expected.to)) ? null : `expected a redirect to ${expected.to}, ${got} ${body.slice(0, 120)}`;
+      return status === 302 && location === expected.to ? null : `expected 302 → ${expected.to}, ${got}`;
     case "forbidden":
-      return status === 403 ? null : `expected 403, got ${status}${location ? ` → ${location}` : ""}`;
+      return status === 403 ? null : `expected 403, ${got}`;
     case "token":
       return tokenRefusal(status, body, asData);
     case "sign-in":
@@ -122,7 +142,7 @@ function judge(expected: Expected, answer: Answer, asData: boolean, path: string
         // Single fetch answers a redirect with 202 and the target in the body.
         return status === 202 && body.includes(JSON.stringify(signInTarget)) ? null : `expected a redirect to ${signInTarget}, got ${status} ${body.slice(0, 120)}`;
       }
-      return status === 302 && location === signInTarget ? null : `expected 302 → ${signInTarget}, got ${status}${location ? ` → ${location}` : ""}`;
+      return status === 302 && location === signInTarget ? null : `expected 302 → ${signInTarget}, ${got}`;
   }
 }
 
@@ -155,16 +175,78 @@ async function personById(id: string) {
   return person;
 }
 
-async function identity(key: DemoKey | "anonymous"): Promise<Identity> {
-  if (key === "anonymous") return { label: "anonymous", org: "kestrel-valley", roles: null };
-  const { sessionId, person } = await insertSession(DEMO[key]);
+type Who = { org: OrgSlug; role: Role | "anonymous" };
+
+async function identity({ org, role }: Who): Promise<Identity> {
+  if (role === "anonymous") return { label: `anonymous (with ${org}'s ids)`, org, roles: null, personId: null };
+  const holder = await roleHolder(org, role);
+  const { sessionId, person } = await insertSession(holder.email);
   const roles = (await rolesOf(person.id)).filter(isRole);
-  return {
-    label: `${key} (${DEMO[key]}: ${roles.join(", ")})`,
-    org: key === "alderBayAdmin" ? "alder-bay" : "kestrel-valley",
-    roles,
-    cookie: await signedSessionValue(sessionId),
-  };
+  return { label: `${org} ${role} (${person.email}: ${roles.join(", ")})`, org, roles, personId: person.id, cookie: await signedSessionValue(sessionId) };
+}
+
+/** One address to request for a route, with the answer the table gives a permitted viewer. */
+type Probe = { what: string; path: string; search: string; permitted: Expected };
+
+/**
+ * The addresses a route is asked at by one identity. Record-scoped: the identity's own record,
+ * another person's of the same organisation, another organisation's — each with the exact answer
+ * of the route's record rule. Other routes with parameters: the organisation's rows (open) and the
+ * other organisation's (404). Without parameters: the one address.
+ */
+async function probesFor(route: RoutePattern, access: Access, me: Identity): Promise<Probe[] | string> {
+  const names = paramNames(route.pattern);
+  if (access.who === "permission" && access.recordScoped) {
+    const rule = access.record;
+    if (!rule) return `${route.pattern}: record-scoped without a record rule in ROUTE_ACCESS`;
+    const cases: { what: string; record: RecordRef | null; sameOrganisation: boolean }[] = [
+      { what: "own record", record: me.personId ? await ownRecord(rule.record, me.personId) : null, sameOrganisation: true },
+      { what: "another person's record", record: await someoneElsesRecord(rule.record, me.org, me.personId), sameOrganisation: true },
+      { what: "another organisation's record", record: await someoneElsesRecord(rule.record, otherOrg(me.org), null), sameOrganisation: false },
+    ];
+    const probes: Probe[] = [];
+    for (const c of cases) {
+      if (!c.record) continue;
+      const isOwner = c.record.ownerId === me.personId;
+      const viewer = {
+        roles: me.roles ?? [],
+        sameOrganisation: c.sameOrganisation,
+        isOwner,
+        managesOwner: me.personId !== null && c.sameOrganisation && (await managesPerson(me.personId, c.record.ownerId)),
+      };
+      const path = await concretePath(route.pattern, me.org, c.record.params);
+      const opens = opensRecord(rule, viewer);
+      // The taking page of a closed (graded) attempt sends its owner to the result.
+      const closedAttempt = opens && isOwner && route.pattern === "/exams/attempts/:attemptId";
+      const permitted: Expected = closedAttempt ? { kind: "redirect", to: `${path}/result` } : opens ? { kind: "ok" } : { kind: "not-found" };
+      probes.push({ what: c.what, path, search: c.record.search, permitted });
+    }
+    return probes;
+  }
+  // Public, demo and token routes with parameters (a certificate code, a calendar token, the
+  // API's ids) answer as their row says whatever the ids: one address is enough.
+  if (names.length === 0 || access.who !== "permission") {
+    return [{ what: "", path: await concretePath(route.pattern, me.org), search: "", permitted: { kind: "ok" } }];
+  }
+  return [
+    { what: "own organisation's ids", path: await concretePath(route.pattern, me.org), search: "", permitted: { kind: "ok" } },
+    { what: "another organisation's ids", path: await concretePath(route.pattern, otherOrg(me.org)), search: "", permitted: { kind: "not-found" } },
+  ];
+}
+
+/** Runs `jobs` with at most `width` in flight (the CI machine has two cores). */
+async function inParallel<T>(jobs: (() => Promise<T>)[], width: number): Promise<T[]> {
+  const results: T[] = new Array(jobs.length);
+  let next = 0;
+  await Promise.all(
+    Array.from({ length: Math.min(width, jobs.length) }, async () => {
+      while (next < jobs.length) {
+        const i = next++;
+        results[i] = await jobs[i]();
+      }
+    }),
+  );
+  return results;
 }
 
 const patterns = routePatterns();
@@ -189,41 +271,72 @@ test("the flattened routes are the ones the production build serves", () => {
   expect(built.filter((id) => !flattened.has(id)), "built routes the flattening missed").toEqual([]);
 });
 
-const WHO: (DemoKey | "anonymous")[] = ["anonymous", "therapist", "preceptor", "educator", "manager", "admin", "alderBayAdmin"];
+/** 2 organisations × (anonymous + the five roles). */
+const WHO: Who[] = ORGS.flatMap((org) => [{ org, role: "anonymous" as const }, ...ROLES.map((role) => ({ org, role }))]);
+
+/** Requests in flight at once per identity: enough to overlap waiting, few enough for two cores. */
+const WIDTH = 6;
 
 for (const who of WHO) {
-  test(`every route answers ${who} as the table says, as a document and as data`, async () => {
+  test(`every route answers ${who.org} ${who.role} as the table says, on own, another person's and another organisation's records`, async () => {
+    test.setTimeout(180_000);
     const me = await identity(who);
     const api = await playwrightRequest.newContext({ baseURL: APP_URL });
     const wrong: string[] = [];
+    const seen = new Set<string>();
     let checked = 0;
+    /** Record probes by the answer expected, so a run shows the matrix is not vacuous. */
+    const tally: Record<string, number> = {};
     try {
-      for (const route of patterns as RoutePattern[]) {
+      const jobs: (() => Promise<void>)[] = [];
+      for (const route of patterns) {
         const access = ROUTE_ACCESS[route.pattern];
         if (!access) {
           wrong.push(`${route.pattern}: no row in ROUTE_ACCESS`);
           continue;
         }
-        const expected = expectedFor(access, me.roles);
-        const path = await concretePath(route.pattern, me.org);
-
-        const doc = judge(expected, await ask(api, path, me.cookie), false, path, null);
-        if (doc) wrong.push(`${route.pattern} document ${path}: ${doc}`);
-        checked++;
-
-        for (const id of route.chain) {
-          const url = dataUrl(path, id);
-          const loadedId = manifest[id]?.hasLoader ? id : null;
-          const verdict = judge(expected, await ask(api, url, me.cookie), true, path, loadedId);
-          if (verdict) wrong.push(`${route.pattern} data ${url}: ${verdict}`);
-          checked++;
+        const base = expectedFor(access, me.roles);
+        const probes = await probesFor(route, access, me);
+        if (typeof probes === "string") {
+          wrong.push(probes);
+          continue;
+        }
+        if (probes.length === 0) wrong.push(`${route.pattern}: no address to ask`);
+        seen.add(route.pattern);
+        for (const probe of probes) {
+          const permitted = base.kind === "ok";
+          // The table's verdict for the route decides first; the record's only for a permitted viewer.
+          const leaf = permitted ? probe.permitted : base;
+          const label = `${route.pattern}${probe.what ? ` (${probe.what})` : ""}`;
+          if (probe.what) tally[`${probe.what}: ${leaf.kind}`] = (tally[`${probe.what}: ${leaf.kind}`] ?? 0) + 1;
+          const url = `${probe.path}${probe.search}`;
+          jobs.push(async () => {
+            const verdict = judge(leaf, await ask(api, url, me.cookie), false, url, null);
+            if (verdict) wrong.push(`${label} document ${url}: ${verdict}`);
+            checked++;
+          });
+          for (const id of route.chain) {
+            // A layout asked alone knows nothing of the record: it answers as the route's gate does.
+            const expected = id === route.id ? leaf : base;
+            const data = dataUrl(probe.path, id, probe.search);
+            const loadedId = manifest[id]?.hasLoader ? id : null;
+            jobs.push(async () => {
+              const verdict = judge(expected, await ask(api, data, me.cookie), true, url, loadedId);
+              if (verdict) wrong.push(`${label} data ${data}: ${verdict}`);
+              checked++;
+            });
+          }
         }
       }
+      await inParallel(jobs, WIDTH);
     } finally {
       await api.dispose();
     }
+    const kinds = Object.entries(tally).sort().map(([k, n]) => `${k} ×${n}`).join("; ");
+    console.log(`authorisation matrix: ${me.label}: ${checked} requests (${kinds})`);
+    expect(seen.size, "every route was asked").toBe(patterns.length);
     expect(checked).toBeGreaterThanOrEqual(patterns.length * 2);
-    expect(wrong, `answers to ${me.label} that disagree with ROUTE_ACCESS`).toEqual([]);
+    expect(wrong.sort(), `answers to ${me.label} that disagree with ROUTE_ACCESS`).toEqual([]);
   });
 }
 
@@ -239,6 +352,7 @@ test("every action refuses the identities the table denies", async () => {
   let checked = 0;
   try {
     const identities = await Promise.all(WHO.map((who) => identity(who)));
+    test.setTimeout(120_000);
     for (const route of patterns) {
       const access = ROUTE_ACCESS[route.pattern];
       if (!access || !manifest[route.id]?.hasAction) continue;
@@ -287,8 +401,8 @@ test("an admin cannot open a person of another organisation by id", async () => 
   const api = await playwrightRequest.newContext({ baseURL: APP_URL });
   try {
     const pairs = [
-      [await identity("admin"), await personById(await firstPersonId("alder-bay"))],
-      [await identity("alderBayAdmin"), await personById(await firstPersonId("kestrel-valley"))],
+      [await identity({ org: "kestrel-valley", role: "admin" }), await personById(await firstPersonId("alder-bay"))],
+      [await identity({ org: "alder-bay", role: "admin" }), await personById(await firstPersonId("kestrel-valley"))],
     ] as const;
     for (const [who, other] of pairs) {
       const path = `/admin/people/${other.id}`;

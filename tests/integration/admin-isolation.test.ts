@@ -3,7 +3,7 @@
  * The Alder Bay admin sees none of Kestrel Valley's people or units, and a Kestrel Valley id
  * in the address or the form is "not found" (404) — never a change.
  */
-import { count, eq } from "drizzle-orm";
+import { and, count, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import type { Viewer } from "~/auth/context";
 import type { Database } from "~/db/client.server";
@@ -54,9 +54,19 @@ describe("the Alder Bay admin and Kestrel Valley's data", () => {
     expect(all.total).toBe(n);
     expect(all.rows.length).toBeGreaterThan(0);
     expect(all.rows.some((r) => kvPeopleIds.has(r.id) || r.email.endsWith("@kestrelvalley.test"))).toBe(false);
-    for (const query of ["?q=kestrelvalley&status=all", "?q=KV-&status=all", "?q=Ellingsen&status=all", "?role=educator&status=all"]) {
+    for (const query of ["?q=kestrelvalley&status=all", "?q=KV-&status=all", "?q=Ellingsen&status=all"]) {
       expect(await listPeople(alderAdmin, query)).toMatchObject({ total: 0, rows: [] });
     }
+    // A role filter finds Alder Bay's own educators only (the seed gives it two), none of Kestrel Valley's.
+    const abEducators = await db.db
+      .select({ id: personRoles.personId })
+      .from(personRoles)
+      .where(and(eq(personRoles.orgId, alderAdmin.org.id), eq(personRoles.role, "educator")));
+    const educators = await listPeople(alderAdmin, "?role=educator&status=all");
+    expect(abEducators).toHaveLength(2);
+    expect(educators.total).toBe(abEducators.length);
+    expect(educators.rows.map((r) => r.id).sort()).toEqual(abEducators.map((r) => r.id).sort());
+    expect(educators.rows.every((r) => r.email.endsWith("@alderbay.test") && r.roles.includes("educator"))).toBe(true);
     // A Kestrel Valley unit id as the filter finds nobody either.
     expect(await listPeople(alderAdmin, `?unit=${[...kvUnitIds][0]}&status=all`)).toMatchObject({ total: 0, rows: [] });
     // The unit choices offered are Alder Bay's own.

@@ -86,7 +86,14 @@ describe("who may use the bank", () => {
     const [any] = await db.db.select({ id: items.id }).from(items).where(eq(items.orgId, educator.org.id)).limit(1);
     expect((await itemPage(otherOrg, any.id)).status).toBe(404);
     const list = await outcome(indexRoute.loader(args<ArgsOf<typeof indexRoute.loader>>(getRequest("/bank"), otherOrg)));
-    expect((list.body as { rows: unknown[] }).rows).toEqual([]);
+    // Alder Bay keeps its own copy of the demo bank (seeds/alder-bay.ts): the list is exactly its
+    // own items, and none of Kestrel Valley's.
+    const rows = (list.body as { rows: { id: string }[] }).rows;
+    const kvIds = new Set((await db.db.select({ id: items.id }).from(items).where(eq(items.orgId, educator.org.id))).map((r) => r.id));
+    const abIds = (await db.db.select({ id: items.id }).from(items).where(eq(items.orgId, otherOrg.org.id))).map((r) => r.id);
+    expect(abIds).toHaveLength(DEMO_BANK.length);
+    expect(rows.map((r) => r.id).sort()).toEqual([...abIds].sort());
+    expect(rows.some((r) => kvIds.has(r.id))).toBe(false);
   });
 
   it("lists the demo bank and filters by topic, type and status", async () => {

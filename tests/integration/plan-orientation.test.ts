@@ -40,10 +40,13 @@ describe("the demo's new hires stand at different stages", () => {
     expect(plans).toHaveLength(3);
     expect(new Set(done).size).toBe(3);
 
-    const seeded = await db.db.select({ id: checkoffs.id }).from(checkoffs).where(eq(checkoffs.status, "acknowledged"));
-    expect(seeded.length).toBeGreaterThan(0);
-    for (const { id } of seeded) {
-      const record = await getCheckoffRecord(kv.org.id, id);
+    // Both organisations' seeded check-offs (Alder Bay has some since the authorisation matrix
+    // needs them), each read in its own organisation.
+    const seeded = await db.db.select({ id: checkoffs.id, orgId: checkoffs.orgId }).from(checkoffs).where(eq(checkoffs.status, "acknowledged"));
+    expect(seeded.some((c) => c.orgId === kv.org.id)).toBe(true);
+    expect(new Set(seeded.map((c) => c.orgId)).size).toBe(2);
+    for (const { id, orgId } of seeded) {
+      const record = await getCheckoffRecord(orgId, id);
       expect(record?.signatures).toHaveLength(2);
       expect(signaturesHold(record!).every((s) => s.holds)).toBe(true);
     }
