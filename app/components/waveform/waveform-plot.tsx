@@ -65,6 +65,17 @@ function slice(a: Float64Array, from: number, to: number): Float64Array {
   return a.subarray(from, to);
 }
 
+/**
+ * A waveform from loader data (an exam's waveform question, its result) crosses the network in
+ * React Router's encoding, which has no typed arrays: each Float64Array arrives as an object of
+ * index keys, without `length` or `subarray`. Restore the samples (index keys enumerate in
+ * ascending order) so such a plot draws, and hydrates, like one computed in the browser.
+ */
+function samples(a: Float64Array | ArrayLike<number> | Record<string, number>): Float64Array {
+  if (a instanceof Float64Array) return a;
+  return Float64Array.from(Array.isArray(a) ? a : Object.values(a));
+}
+
 export function WaveformPlot(props: WaveformPlotProps) {
   const { waveform, startS, endS, breaths = [], markers = [], windows = [], onPointClick } = props;
   const frameRef = useRef<HTMLDivElement>(null);
@@ -74,12 +85,13 @@ export function WaveformPlot(props: WaveformPlotProps) {
   const x = linearScale([startS, endS], [geometry.left, geometry.right]);
 
   const panels: PanelData[] = useMemo(() => {
-    const [from, to] = visibleRange(waveform.timeS, startS, endS);
-    const t = slice(waveform.timeS, from, to);
+    const timeS = samples(waveform.timeS);
+    const [from, to] = visibleRange(timeS, startS, endS);
+    const t = slice(timeS, from, to);
     // About two points per pixel column: min and max of each bucket survive (peaks kept).
     const maxPoints = Math.max(64, Math.round((geometry.right - geometry.left) * 2));
     return SIGNALS.map((spec) => {
-      const series = downsampleSeries(t, slice(waveform[spec.key], from, to), maxPoints);
+      const series = downsampleSeries(t, slice(samples(waveform[spec.key]), from, to), maxPoints);
       const domain = props.domains?.[spec.key] ?? niceDomain(series.values, { atLeast: spec.atLeast, symmetric: spec.symmetric, maxTicks: Y_TICKS });
       return { key: spec.key, series, domain };
     });
