@@ -11,14 +11,22 @@ import {
 import { sessionMiddleware } from "~/auth/gate.server";
 import { ErrorPage } from "~/components/error-page";
 import { backgroundJobs } from "~/jobs.server";
+import { bodyLimit } from "~/security/body-limit.server";
+import { useNonce } from "~/security/nonce";
 import type { Route } from "./+types/root";
 import "./styles/app.css";
+import { z } from "zod";
 
-export const middleware: Route.MiddlewareFunction[] = [backgroundJobs, sessionMiddleware];
+// In the browser, zod must not probe whether it may compile parsers with `new Function`: the
+// Content-Security-Policy forbids eval, and the caught probe is still reported as a violation.
+if (typeof document !== "undefined") z.config({ jitless: true });
+
+export const middleware: Route.MiddlewareFunction[] = [bodyLimit, backgroundJobs, sessionMiddleware];
 
 export const links: Route.LinksFunction = () => [{ rel: "icon", href: "/favicon.svg", type: "image/svg+xml" }];
 
 export function Layout({ children }: { children: React.ReactNode }) {
+  const nonce = useNonce();
   return (
     <html lang="en">
       <head>
@@ -29,8 +37,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
       </head>
       <body className="min-h-screen bg-paper text-ink antialiased">
         {children}
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );

@@ -34,8 +34,9 @@ export default [
   route("login/magic", "routes/auth/login-magic.tsx"),
   route("logout", "routes/auth/logout.ts"),
 
-  // Demo mode only: the local e-mail fake's messages
+  // Demo mode only: the local e-mail fake's messages, and a deliberate server error
   route("dev/outbox", "routes/dev/outbox.tsx"),
+  route("dev/fault", "routes/dev/fault.tsx"),
 
   // The signed-in product: the shell (top bar, section strip), each section gated in its layout
   layout("routes/shell.tsx", [

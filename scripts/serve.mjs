@@ -1,8 +1,15 @@
 /**
  * Tidemark's production server: react-router-serve's set-up (compression, immutable hashed
- * assets, the request handler), plus one thing it lacks — the client's socket address,
- * passed to the app in x-tidemark-client for per-client rate limits. Any such header sent
- * by a client is removed first. Usage: node scripts/serve.mjs [build/server/index.js]
+ * assets, the request handler), plus what it lacks:
+ *   - first, the build's own security middleware (app/security/server.ts): a CSP nonce per
+ *     request and the header set on every response, assets and errors included; an oversize
+ *     body refused 413 before it is read;
+ *   - the client's address, passed to the app in x-tidemark-client for per-client rate limits
+ *     (any such header sent by a client is replaced). Behind a reverse proxy set TRUST_PROXY to
+ *     the number of proxies in front (Express "trust proxy"): the address is then the one the
+ *     outermost trusted proxy saw, taken from the right of X-Forwarded-For, which a client
+ *     cannot forge.
+ * Usage: node scripts/serve.mjs [build/server/index.js]
  */
 import path from "node:path";
 import url from "node:url";
@@ -25,18 +32,28 @@ export async function migrateDatabase(databaseUrl = process.env.DATABASE_URL ?? 
   client.close();
 }
 
+/** TRUST_PROXY: how many reverse proxies stand in front (0, the default: none). */
+function trustedProxies() {
+  const raw = process.env.TRUST_PROXY ?? "0";
+  const hops = Number(raw);
+  if (!Number.isInteger(hops) || hops < 0) throw new Error(`TRUST_PROXY must be the number of proxies in front (0, 1, 2…), not "${raw}".`);
+  return hops;
+}
+
 export async function startServer({ port = Number(process.env.PORT ?? 3000), host = process.env.HOST ?? "0.0.0.0", buildPath = "build/server/index.js" } = {}) {
   await migrateDatabase();
   const build = await import(url.pathToFileURL(path.resolve(buildPath)).href);
   const app = express();
   app.disable("x-powered-by");
+  app.set("trust proxy", trustedProxies());
+  const publicUrl = process.env.PUBLIC_URL ?? "";
+  app.use(build.entry.module.securityMiddleware({ production: process.env.NODE_ENV === "production", https: publicUrl.startsWith("https:") }));
   app.use(compression());
   const clientDir = path.resolve(path.dirname(buildPath), "..", "client");
   app.use("/assets", express.static(path.join(clientDir, "assets"), { immutable: true, maxAge: "1y" }));
   app.use(express.static(clientDir, { maxAge: "1h" }));
   app.use((req, _res, next) => {
-    delete req.headers["x-tidemark-client"];
-    req.headers["x-tidemark-client"] = req.socket.remoteAddress ?? "unknown";
+    req.headers["x-tidemark-client"] = req.ip ?? req.socket.remoteAddress ?? "unknown";
     next();
   });
   app.all("*", createRequestHandler({ build, mode: process.env.NODE_ENV }));

@@ -9,8 +9,9 @@ import { and, desc, eq, isNull } from "drizzle-orm";
 import { database } from "~/db/client.server";
 import { recordAudit } from "~/db/audit.server";
 import { apiTokens, organisations, people, type API_SCOPES } from "~/db/schema";
-import { hitRateLimit, type RateLimitRule } from "~/auth/rate-limit.server";
+import { BAD_TOKENS_PER_CLIENT, clientKey, hitRateLimit, peekRateLimit, type RateLimitRule } from "~/auth/rate-limit.server";
 import { apiError } from "./respond.server";
+import type { ApiErrorCode } from "./schemas";
 
 export type ApiScope = (typeof API_SCOPES)[number];
 export type ApiCaller = { tokenId: string; orgId: string; timeZone: string; scopes: ApiScope[] };
@@ -71,16 +72,28 @@ export function bearerTokenOf(request: Request): string {
 
 export async function authenticate(request: Request, scope: ApiScope, now: Date = new Date()): Promise<ApiCaller> {
   const token = bearerTokenOf(request);
+  // A client that keeps sending tokens we do not know is refused before the next one is looked up.
+  const bad = { headers: { "WWW-Authenticate": 'Bearer realm="tidemark-api", error="invalid_token"' } };
+  const badTokenKey = `api-bad-token:client:${clientKey(request)}`;
+  const probing = await peekRateLimit(badTokenKey, BAD_TOKENS_PER_CLIENT, now);
+  if (!probing.allowed) {
+    throw apiError(429, "rate_limited", `Too many calls with unknown, revoked or expired tokens from this address. Try again in ${probing.retryAfterSeconds} s.`, {
+      headers: { "Retry-After": String(Math.max(1, probing.retryAfterSeconds)) },
+    });
+  }
+  const refuse = async (code: ApiErrorCode, message: string): Promise<never> => {
+    await hitRateLimit(badTokenKey, BAD_TOKENS_PER_CLIENT, now);
+    throw apiError(401, code, message, bad);
+  };
   const { db, write } = await database();
   const [row] = await db
     .select({ token: apiTokens, timeZone: organisations.timeZone })
     .from(apiTokens)
     .innerJoin(organisations, eq(organisations.id, apiTokens.orgId))
     .where(eq(apiTokens.tokenHash, hashToken(token)));
-  const bad = { headers: { "WWW-Authenticate": 'Bearer realm="tidemark-api", error="invalid_token"' } };
-  if (!row) throw apiError(401, "invalid_token", "This token is not known. Check it was copied whole.", bad);
-  if (row.token.revokedAt) throw apiError(401, "token_revoked", "This token was revoked. Ask an admin for a new one.", bad);
-  if (row.token.expiresAt && row.token.expiresAt.getTime() <= now.getTime()) throw apiError(401, "token_expired", "This token has expired. Ask an admin for a new one.", bad);
+  if (!row) return refuse("invalid_token", "This token is not known. Check it was copied whole.");
+  if (row.token.revokedAt) return refuse("token_revoked", "This token was revoked. Ask an admin for a new one.");
+  if (row.token.expiresAt && row.token.expiresAt.getTime() <= now.getTime()) return refuse("token_expired", "This token has expired. Ask an admin for a new one.");
   if (!row.token.scopes.includes(scope)) {
     throw apiError(403, "insufficient_scope", `This token lacks the "${scope}" scope this call needs.`, {
       headers: { "WWW-Authenticate": `Bearer realm="tidemark-api", error="insufficient_scope", scope="${scope}"` },

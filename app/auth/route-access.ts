@@ -95,6 +95,7 @@ export const ROUTE_ACCESS: Record<string, Access> = {
   "/login/magic": { who: "public" },
   "/logout": { who: "public", note: "POST only; GET redirects" },
   "/dev/outbox": { who: "demo" },
+  "/dev/fault": { who: "demo", note: "?raise=1 answers a deliberate 500 (the error page and its headers)" },
   "/today": { who: "signed-in" },
   "/plan": { who: "permission", permission: "section:plan" },
   "/plan/calendar": { who: "permission", permission: "section:plan", note: "the person's private calendar address; managers also their units' expiries feed" },

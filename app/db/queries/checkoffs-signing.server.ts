@@ -101,6 +101,11 @@ async function resolveSigner(tx: Tx, viewer: Viewer, email: string | null): Prom
 
 const WRONG_SIGNER = "We could not confirm that signer: check the e-mail and the signing PIN.";
 
+/** A refusal for a wrong PIN or an unknown signer: what the per-device limit counts. */
+export function isWrongSigner(result: { ok: boolean; message?: string }): boolean {
+  return !result.ok && !!result.message?.startsWith(WRONG_SIGNER);
+}
+
 /**
  * The second component: the signer's PIN, with five wrong tries locking signing for a while.
  * A wrong PIN is counted and audited in the caller's transaction, which then commits.

@@ -1,7 +1,9 @@
 import { parseWithZod } from "@conform-to/zod/v4";
 import { data, Form, Link, useLoaderData } from "react-router";
 import { canAcknowledgeCheckoff, canAddAddendum, canAttachEvidence, canObserveCheckoff, canSignCheckoff, isSigned } from "~/auth/checkoff-policy";
+import type { z } from "zod";
 import { redirectWithToast } from "~/auth/flash.server";
+import { clientKey, hitRateLimit, peekRateLimit, WRONG_PINS_PER_CLIENT } from "~/auth/rate-limit.server";
 import { requireViewer } from "~/auth/gate.server";
 import { CautionFooter } from "~/components/caution";
 import { CheckoffStatusMark } from "~/components/checkoffs/checkoff-status";
@@ -9,7 +11,7 @@ import { SignatureBlock } from "~/components/checkoffs/signature-block";
 import { StepRow } from "~/components/checkoffs/step-row";
 import { CalendarDate } from "~/components/calendar-date";
 import { Button, buttonClass } from "~/components/ui/button";
-import { hasSigningPin, signaturesHold, acknowledgeCheckoff, addAddendum, signCheckoff } from "~/db/queries/checkoffs-signing.server";
+import { hasSigningPin, isWrongSigner, signaturesHold, acknowledgeCheckoff, addAddendum, signCheckoff } from "~/db/queries/checkoffs-signing.server";
 import { actorOf, attachEvidence, markStep, setOutcome, startRequested, type WriteResult } from "~/db/queries/checkoffs-write.server";
 import { bodyTooLarge, fileBytes } from "~/files/store.server";
 import { methodLabel } from "~/domain/checkoffs/methods";
@@ -54,6 +56,34 @@ function answer(result: WriteResult<unknown>, reply: (errors: string[]) => unkno
   return data(reply([result.message]), { status: result.status });
 }
 
+/**
+ * Every form that takes a signing PIN (sign, acknowledge, addendum): the PIN is never written
+ * back into the page; a device with too many wrong PINs or unknown signers is refused before
+ * the PIN is tried (WRONG_PINS_PER_CLIENT), and each new wrong one is counted against it.
+ */
+async function withSigningPin<S extends z.ZodType<{ pin: string; email?: string | null }>>(
+  request: Request,
+  formData: FormData,
+  schema: S,
+  sign: (value: z.infer<S>) => Promise<{ result: WriteResult<unknown>; toast: string }>,
+  here: string,
+) {
+  const submission = parseWithZod(formData, { schema });
+  if (submission.status !== "success") return data(submission.reply({ hideFields: ["pin"] }), { status: 400 });
+  const key = `wrong-pin:client:${clientKey(request)}`;
+  const limit = await peekRateLimit(key, WRONG_PINS_PER_CLIENT);
+  if (!limit.allowed) {
+    const minutes = Math.ceil(limit.retryAfterSeconds / 60);
+    return data(submission.reply({ formErrors: [`Too many wrong PINs from this device. Signing here is paused for ${minutes} ${minutes === 1 ? "minute" : "minutes"}.`], hideFields: ["pin"] }), {
+      status: 429,
+      headers: { "Retry-After": String(limit.retryAfterSeconds) },
+    });
+  }
+  const { result, toast } = await sign(submission.value as z.infer<S>);
+  if (isWrongSigner(result)) await hitRateLimit(key, WRONG_PINS_PER_CLIENT);
+  return answer(result, (formErrors) => submission.reply({ formErrors, hideFields: ["pin"] })) ?? redirectWithToast(here, toast);
+}
+
 export async function action({ request, context, params }: Route.ActionArgs) {
   const viewer = requireViewer(context, "section:checkoffs");
   const checkoffId = params.checkoffId;
@@ -83,31 +113,22 @@ export async function action({ request, context, params }: Route.ActionArgs) {
       const result = await setOutcome(viewer, checkoffId, { outcome: v.outcome, practicePlan: v.practicePlan ?? null, practiceBy: v.practiceBy ?? null });
       return answer(result, (formErrors) => submission.reply({ formErrors })) ?? submission.reply({ resetForm: false });
     }
-    case CHECKOFF_INTENTS.sign: {
-      const submission = parseWithZod(formData, { schema: signSchema });
-      if (submission.status !== "success") return data(submission.reply({ hideFields: ["pin"] }), { status: 400 });
-      const result = await signCheckoff(viewer, checkoffId, { email: submission.value.email ?? null, pin: submission.value.pin });
-      const refused = answer(result, (formErrors) => submission.reply({ formErrors, hideFields: ["pin"] }));
-      if (refused) return refused;
-      const repeat = result.ok && result.value.repeatId ? " A repeat check-off is scheduled." : "";
-      return redirectWithToast(here, `Signed.${repeat} The therapist acknowledges next.`);
-    }
-    case CHECKOFF_INTENTS.acknowledge: {
-      const submission = parseWithZod(formData, { schema: signSchema });
-      if (submission.status !== "success") return data(submission.reply({ hideFields: ["pin"] }), { status: 400 });
-      const result = await acknowledgeCheckoff(viewer, checkoffId, { email: submission.value.email ?? null, pin: submission.value.pin });
-      const refused = answer(result, (formErrors) => submission.reply({ formErrors, hideFields: ["pin"] }));
-      if (refused) return refused;
-      return redirectWithToast(here, "Acknowledged. The record is complete.");
-    }
-    case CHECKOFF_INTENTS.addendum: {
-      const submission = parseWithZod(formData, { schema: addendumSchema });
-      if (submission.status !== "success") return data(submission.reply({ hideFields: ["pin"] }), { status: 400 });
-      const result = await addAddendum(viewer, checkoffId, submission.value.text, { email: submission.value.email ?? null, pin: submission.value.pin });
-      const refused = answer(result, (formErrors) => submission.reply({ formErrors, hideFields: ["pin"] }));
-      if (refused) return refused;
-      return redirectWithToast(here, "Addendum signed and added beside the record.");
-    }
+    case CHECKOFF_INTENTS.sign:
+      return withSigningPin(request, formData, signSchema, async (v) => {
+        const result = await signCheckoff(viewer, checkoffId, { email: v.email ?? null, pin: v.pin });
+        const repeat = result.ok && result.value.repeatId ? " A repeat check-off is scheduled." : "";
+        return { result, toast: `Signed.${repeat} The therapist acknowledges next.` };
+      }, here);
+    case CHECKOFF_INTENTS.acknowledge:
+      return withSigningPin(request, formData, signSchema, async (v) => ({
+        result: await acknowledgeCheckoff(viewer, checkoffId, { email: v.email ?? null, pin: v.pin }),
+        toast: "Acknowledged. The record is complete.",
+      }), here);
+    case CHECKOFF_INTENTS.addendum:
+      return withSigningPin(request, formData, addendumSchema, async (v) => ({
+        result: await addAddendum(viewer, checkoffId, v.text, { email: v.email ?? null, pin: v.pin }),
+        toast: "Addendum signed and added beside the record.",
+      }), here);
     case CHECKOFF_INTENTS.evidence: {
       const upload = await fileBytes(formData, "file");
       const result = await attachEvidence(viewer, checkoffId, upload);
