@@ -67,7 +67,19 @@ if (import.meta.url === url.pathToFileURL(process.argv[1]).href) {
   const address = server.address();
   console.log(`Tidemark is listening on http://localhost:${typeof address === "object" && address ? address.port : ""}`);
   // SIGTERM: stop taking new connections, let requests in flight finish, then exit.
-  const stop = () => server.close(() => process.exit(0));
+  // close() drops the keep-alive connections idle at that moment (Node ≥ 19) but not those that
+  // become idle when their request ends, which would hold the process until keepAliveTimeout:
+  // replies after the signal say Connection: close, and idle connections are closed every 50 ms
+  // until the last request has ended (tests/faults/run.ts checks it under load).
+  let stopping = false;
+  const stop = () => {
+    if (stopping) return;
+    stopping = true;
+    server.prependListener("request", (_req, res) => res.setHeader("Connection", "close"));
+    server.close(() => process.exit(0));
+    server.closeIdleConnections();
+    setInterval(() => server.closeIdleConnections(), 50).unref();
+  };
   process.on("SIGTERM", stop);
   process.on("SIGINT", stop);
 }

@@ -1,6 +1,7 @@
 /**
  * `npm test`: the whole suite, in the order a reviewer trusts it — types, unit and integration
- * tests, the production build, then the browser tests in Debian's chromium. Stops at the first
+ * tests, the production build, the crash and durability run on that build (SIGKILL mid-write,
+ * backup under load, SIGTERM under load), then the browser tests in Debian's chromium. Stops at the first
  * failing step and exits with its status. Installs what the tests need from Debian's packages
  * when it is missing and we are root — chromium (browser tests) and poppler-utils (pdftotext and
  * pdfinfo read our PDFs back) — otherwise prints the one command to run.
@@ -61,5 +62,6 @@ ensureAptPackages();
 run("Typecheck (react-router typegen + tsc)", "npm", ["run", "typecheck"]);
 run("Unit and integration tests (vitest)", bin("vitest"), ["run"]);
 run("Production build (react-router build)", bin("react-router"), ["build"]);
+run("Crash and durability (npm run test:faults)", "npm", ["run", "test:faults", "--", "--build", "build"]);
 run("Browser tests (Playwright, Debian's chromium)", bin("playwright"), ["test"]);
 header("All checks passed");
