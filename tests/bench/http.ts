@@ -7,6 +7,7 @@
  * kept beside them as a cross-check. Requests per second is autocannon's average over its
  * one-second samples, the figure STACK.md's reference ceilings were measured with.
  */
+import http from "node:http";
 import autocannon, { type Instance, type Result } from "autocannon";
 
 export type LoadSettings = { connections: number; durationS: number; warmupS: number; timeoutS: number };
@@ -107,4 +108,35 @@ export async function measureRoute(baseUrl: string, target: RouteTarget, setting
     durationS: result.duration,
     reference: target.reference,
   };
+}
+
+export type SequentialFigure = { name: string; path: string; requests: number; p50Ms: number; p95Ms: number; p99Ms: number; maxMs: number };
+
+/**
+ * One client alone: `requests` GETs one after another on one keep-alive connection (after a
+ * warm-up of 20), timed from sending to the end of the reply — the trivial route's figure for
+ * rows measured the same way (one manager's Team matrix) and for in-process jobs.
+ */
+export async function measureSequential(baseUrl: string, name: string, path: string, requests = 200, headers: Record<string, string> = {}): Promise<SequentialFigure> {
+  const agent = new http.Agent({ keepAlive: true, maxSockets: 1 });
+  const once = () =>
+    new Promise<number>((resolve, reject) => {
+      const t0 = performance.now();
+      const request = http.get(`${baseUrl}${path}`, { agent, headers, timeout: 10_000 }, (response) => {
+        response.on("data", () => undefined);
+        response.on("end", () => (response.statusCode === 200 ? resolve(performance.now() - t0) : reject(new Error(`GET ${path} answered ${response.statusCode}, not 200`))));
+        response.on("error", reject);
+      });
+      request.on("timeout", () => request.destroy(new Error(`GET ${path} timed out`)));
+      request.on("error", reject);
+    });
+  try {
+    for (let i = 0; i < 20; i++) await once();
+    const times: number[] = [];
+    for (let i = 0; i < requests; i++) times.push(await once());
+    times.sort((a, b) => a - b);
+    return { name, path, requests, p50Ms: round2(percentile(times, 50)), p95Ms: round2(percentile(times, 95)), p99Ms: round2(percentile(times, 99)), maxMs: round2(times[times.length - 1]) };
+  } finally {
+    agent.destroy();
+  }
 }

@@ -47,7 +47,7 @@ export type ReminderRunFigure = {
   meetsTarget: boolean;
 };
 
-export type CertificateFigure = { runs: number; p50Ms: number; p95Ms: number; maxMs: number; bytes: number; targetMs: number; meetsTarget: boolean };
+export type CertificateFigure = { runs: number; p50Ms: number; p95Ms: number; p99Ms: number; maxMs: number; bytes: number; targetMs: number; meetsTarget: boolean };
 
 function summary(r: ReminderRunReport) {
   return { reminders: r.remindersSent, emails: r.emails.length, failed: r.failed.length };
@@ -124,7 +124,7 @@ export async function timeCertificatePdf(runs = 20): Promise<CertificateFigure> 
   }
   times.sort((a, b) => a - b);
   const p95 = percentile(times, 95);
-  return { runs, p50Ms: round(percentile(times, 50)), p95Ms: round(p95), maxMs: round(times[times.length - 1]), bytes, targetMs: CERTIFICATE_TARGET_MS, meetsTarget: p95 < CERTIFICATE_TARGET_MS };
+  return { runs, p50Ms: round(percentile(times, 50)), p95Ms: round(p95), p99Ms: round(percentile(times, 99)), maxMs: round(times[times.length - 1]), bytes, targetMs: CERTIFICATE_TARGET_MS, meetsTarget: p95 < CERTIFICATE_TARGET_MS };
 }
 
 export function formatReminderRun(f: ReminderRunFigure): string {

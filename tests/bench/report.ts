@@ -1,15 +1,16 @@
 /**
- * What `npm run bench` prints and keeps: the three tables, the JSON written to
- * bench-results.json, and the change against the previous run's file. Figures only — there
- * is no pass/fail here beyond stating whether a target of issue 3 is met.
+ * What `npm run bench` prints and keeps: the detailed tables, the JSON written to
+ * bench-results.json (with the whole-product `summary`, tests/bench/summary.ts), and the change
+ * against the previous run's file. Figures only — targets are judged in tests/bench/targets.ts.
  */
 import type { BundleFigure } from "./bundle-size";
 import type { HttpFigure } from "./http";
 import type { SimFigure } from "./sim";
+import type { SummaryRow } from "./summary";
 
 export type BenchResults = {
-  /** Bumped when the shape changes, so a comparison never mixes shapes. */
-  format: 1;
+  /** Bumped when the shape changes, so a comparison never mixes shapes (2: `summary` added). */
+  format: 2;
   timestamp: string;
   machine: { cpus: number; cpuModel: string; platform: string; release: string; node: string; totalMemoryGB: number; loadAverage1m: number };
   git: { commit: string; uncommittedChanges: boolean };
@@ -17,10 +18,12 @@ export type BenchResults = {
   http: HttpFigure[];
   sim: SimFigure[];
   bundle: BundleFigure | null;
+  /** The whole-product table's rows, as printed last (tests/bench/summary.ts). */
+  summary: SummaryRow[];
   errors: string[];
 };
 
-function table(headers: string[], rows: string[][], rightAligned: boolean[]): string {
+export function table(headers: string[], rows: string[][], rightAligned: boolean[]): string {
   const widths = headers.map((h, i) => Math.max(h.length, ...rows.map((r) => r[i].length)));
   const line = (cells: string[]) => cells.map((c, i) => (rightAligned[i] ? c.padStart(widths[i]) : c.padEnd(widths[i]))).join("  ");
   return [line(headers), widths.map((w) => "-".repeat(w)).join("  "), ...rows.map(line)].join("\n");
@@ -93,6 +96,17 @@ export function compareWithPrevious(previous: BenchResults, current: BenchResult
   if (previous.bundle && current.bundle) {
     const line = change("Bench route JavaScript, gzipped", previous.bundle.jsGzipKB, current.bundle.jsGzipKB, "KB", 2);
     if (line) lines.push(line);
+  }
+  // The whole-product rows, by name: every timed row of the summary present in both runs.
+  for (const now of current.summary ?? []) {
+    const was = (previous.summary ?? []).find((r) => r.name === now.name);
+    if (!was || current.http.some((h) => h.name === now.name)) continue;
+    lines.push(
+      ...[
+        was.requestsPerSecond !== null && now.requestsPerSecond !== null ? change(`${now.name} req/s`, was.requestsPerSecond, now.requestsPerSecond, "", 0) : null,
+        was.p95Ms !== null && now.p95Ms !== null ? change(`${now.name} p95`, was.p95Ms, now.p95Ms, "ms", 2) : null,
+      ].filter((l): l is string => l !== null),
+    );
   }
   if (lines.length === 1) lines.push("  (no figure in common)");
   return lines;

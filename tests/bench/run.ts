@@ -26,6 +26,28 @@
  *          --autosave-examinees N (300) --autosave-seconds S (120) --autosave-interval S (5), or
  *          the same as AUTOSAVE_EXAMINEES / AUTOSAVE_SECONDS / AUTOSAVE_INTERVAL (a scaled run,
  *          e.g. AUTOSAVE_SECONDS=30, is reported as "scaled")
+ *          --shift-people N (300) --shift-managers N (10) --shift-seconds S (120)
+ *          --shift-interval S (5), or SHIFT_PEOPLE / SHIFT_MANAGERS / SHIFT_SECONDS / SHIFT_INTERVAL
+ *          (tests/bench/shift-start.ts; anything but the defaults is reported as "scaled")
+ *          --only PART[,PART…] runs only those parts: sim, scoring, certificate, bundle, http
+ *          (the routes, /healthz and the Team matrix), reminders, autosave, shift-start. The parts
+ *          that need them still build (bundle, http, autosave, shift-start) and seed (http,
+ *          reminders, autosave, shift-start). Example of a quick scaled run while developing:
+ *          `npm run bench -- --only http,shift-start --people 400 --duration 3 --warmup 1
+ *          --shift-people 40 --shift-managers 4 --shift-seconds 30`. The summary table then holds
+ *          the parts that ran; a ratio whose /healthz figure was not measured shows "—".
+ *          --out FILE writes the results (and reads the previous ones) there instead of
+ *          bench-results.json, so a scaled run does not replace the full run's figures.
+ *
+ *   6. the "shift start" mixed load (issue 11 item 6, tests/bench/shift-start.ts): 300 therapists
+ *      signing in through the e-mailed code, opening Exams, starting the exam and saving answers,
+ *      while 10 managers page through the Team matrix, against a fresh server of the same build
+ *      and the same database; per request kind p50/p95/p99, counts, errors, answers lost.
+ *
+ * Last, the whole-product table (tests/bench/summary.ts): one row per measured route or job with
+ * req/s, p50/p95/p99, its ratio to GET /healthz of the same build in the same run, the targets of
+ * the earlier issues (tests/bench/targets.ts, one list) and whether each is met; the same rows go
+ * to bench-results.json as `summary` (format 2).
  */
 import { execSync } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
@@ -35,10 +57,12 @@ import { parseArgs } from "node:util";
 import { defaultSeedDate } from "../../seeds/seed";
 import { buildPrivateCopy, type BenchBuild } from "./build";
 import { measureBenchBundle } from "./bundle-size";
-import { measureRoute, stopLoad, type HttpFigure, type LoadSettings, type RouteTarget } from "./http";
-import { compareWithPrevious, formatBundle, formatHttp, formatSim, type BenchResults } from "./report";
+import { measureRoute, measureSequential, stopLoad, type HttpFigure, type LoadSettings, type RouteTarget, type SequentialFigure } from "./http";
+import { compareWithPrevious, formatBundle, formatHttp, formatSim, table, type BenchResults } from "./report";
 import { choosePort, httpGet, startBenchServer, type BenchServer } from "./server";
-import { prepareBenchDatabase, sessionCookieHeader } from "./session";
+import { prepareBenchDatabase, sessionCookieHeader, type BenchDatabase } from "./session";
+import { formatShiftStart, measureShiftStart, shiftStartSettings, stopShiftStart, type ShiftStartSettings } from "./shift-start";
+import { buildSummary, formatSummary } from "./summary";
 import { autosaveSettings, formatAutosave, measureAutosave, stopAutosave, type AutosaveSettings } from "./autosave";
 import { formatScoring, timeScoring } from "./scoring";
 import { timeModes } from "./sim";
@@ -58,7 +82,7 @@ import {
 
 const PROJECT_ROOT = path.resolve(import.meta.dirname, "..", "..");
 const BENCH_DIR = path.join(PROJECT_ROOT, "data", "bench");
-const RESULTS_FILE = path.join(PROJECT_ROOT, "bench-results.json");
+const DEFAULT_RESULTS_FILE = path.join(PROJECT_ROOT, "bench-results.json");
 // Bench-only secrets: the server refuses to start in production without them (issue 2).
 const SESSION_SECRET = "tidemark-bench-session-secret-not-for-production";
 const TOTP_SECRET = "fedcba9876543210".repeat(4); // 64 hex characters, as the sign-in strategy requires
@@ -74,8 +98,16 @@ const { values: flags } = parseArgs({
     "autosave-examinees": { type: "string" },
     "autosave-seconds": { type: "string" },
     "autosave-interval": { type: "string" },
+    "shift-people": { type: "string" },
+    "shift-managers": { type: "string" },
+    "shift-seconds": { type: "string" },
+    "shift-interval": { type: "string" },
+    only: { type: "string" },
+    out: { type: "string" },
   },
 });
+/** Where the results go (and the previous ones are read from): bench-results.json unless --out says otherwise. */
+const RESULTS_FILE = flags.out ? path.resolve(flags.out) : DEFAULT_RESULTS_FILE;
 const positive = (name: string, raw: string | undefined) => {
   const n = Number(raw);
   if (!Number.isInteger(n) || n < 0) {
@@ -94,11 +126,29 @@ try {
   console.error(error instanceof Error ? error.message : String(error));
   process.exit(2);
 }
+let shiftStart: ShiftStartSettings;
+try {
+  shiftStart = shiftStartSettings({ people: flags["shift-people"], managers: flags["shift-managers"], seconds: flags["shift-seconds"], interval: flags["shift-interval"] });
+} catch (error) {
+  console.error(error instanceof Error ? error.message : String(error));
+  process.exit(2);
+}
+const PARTS = ["sim", "scoring", "certificate", "bundle", "http", "reminders", "autosave", "shift-start"] as const;
+type Part = (typeof PARTS)[number];
+const only = flags.only?.split(",").map((p) => p.trim()).filter(Boolean);
+const unknownPart = only?.find((p) => !(PARTS as readonly string[]).includes(p));
+if (unknownPart !== undefined || (only && only.length === 0)) {
+  console.error(`--only takes parts separated by commas, of: ${PARTS.join(", ")}; got "${flags.only}".`);
+  process.exit(2);
+}
+const runs = (part: Part) => !only || only.includes(part);
+const needsBuild = (["bundle", "http", "autosave", "shift-start"] as const).some(runs);
+const needsDatabase = (["http", "reminders", "autosave", "shift-start"] as const).some(runs);
 
 let server: BenchServer | undefined;
 let build: BenchBuild | undefined;
-/** The seeded bench database, once the HTTP section has built it (the autosave load reuses it). */
-let benchDatabaseUrl: string | undefined;
+/** The seeded bench database (the HTTP, reminder, autosave and shift-start parts share it). */
+let benchDatabase: BenchDatabase | undefined;
 let interrupted = false;
 // `on`, not `once`: Ctrl-C reaches npm, tsx and this process, and tsx relays it once more;
 // a second SIGINT without a handler would end the process before the server is stopped.
@@ -108,6 +158,7 @@ process.on("SIGINT", () => {
   console.error("\nInterrupted: stopping the load and the bench server.");
   stopLoad();
   stopAutosave();
+  stopShiftStart();
   void (server?.stop() ?? Promise.resolve()).finally(() => {
     build?.remove();
     process.exit(130);
@@ -141,19 +192,27 @@ async function check(baseUrl: string, target: RouteTarget, mustShow?: string): P
   }
 }
 
-async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unknown>): Promise<HttpFigure[]> {
+/** The large organisation in its own file, widened to 40 requirements (every part that uses it sees the same). */
+async function seedBenchDatabase(settings: Record<string, unknown>): Promise<{ db: BenchDatabase; widened?: Awaited<ReturnType<typeof widenRequirements>> }> {
   mkdirSync(BENCH_DIR, { recursive: true });
   const today = defaultSeedDate();
   console.log(`Seeding the large organisation (${peopleCount} people, demo day ${today}) into data/bench/tidemark.db …`);
   const db = await prepareBenchDatabase({ dbFile: path.join(BENCH_DIR, "tidemark.db"), people: peopleCount, today });
   console.log(`  seeded in ${(db.seedMs / 1000).toFixed(1)} s; session for ${db.manager.email} (${db.manager.name}).`);
   Object.assign(settings, { people: peopleCount, seedToday: today, seedS: Math.round(db.seedMs / 100) / 10 });
-  benchDatabaseUrl = db.databaseUrl;
+  try {
+    return { db, widened: await widenRequirements(db.databaseUrl, db.manager.email) };
+  } catch (error) {
+    errors.push(`team-matrix requirements: ${message(error)}`);
+    return { db };
+  }
+}
 
+async function measureHttp(benchBuild: BenchBuild, db: BenchDatabase, widened: Awaited<ReturnType<typeof widenRequirements>> | undefined, settings: Record<string, unknown>): Promise<HttpFigure[]> {
   // Team matrix (issue 8): 40 requirements, and the bare SQL behind the matrix timed before the server starts.
   let matrixFigure: TeamMatrixFigure | undefined;
   try {
-    const widened = await widenRequirements(db.databaseUrl, db.manager.email);
+    if (!widened) throw new Error("the requirements were not widened (see above).");
     const bare = await timeBareMatrixSql(db.databaseUrl, widened.orgId, widened.unitIds);
     matrixFigure = { requirements: widened.count, ...bare, targets: "targets: request p95 under 50 ms, within 3× the bare query" };
   } catch (error) {
@@ -206,6 +265,17 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
       console.error(`  ${message(error)}`);
     }
   }
+  // The trivial route for one client alone: what the one-manager Team matrix rows and the in-process jobs are set against.
+  if (!interrupted) {
+    try {
+      console.log("Measuring GET /healthz for one client: 200 requests one after another on one connection …");
+      const one: SequentialFigure = await measureSequential(server.baseUrl, "GET /healthz (one client, sequential)", "/healthz");
+      settings["healthz.one-connection"] = one;
+      console.log(`  p50 ${one.p50Ms} ms, p95 ${one.p95Ms} ms, p99 ${one.p99Ms} ms, max ${one.maxMs} ms`);
+    } catch (error) {
+      errors.push(`GET /healthz, one client: ${message(error)}`);
+    }
+  }
   // What the matrix's useFetcher asks for: the matrix route's data alone, a status filter applied.
   const matrixTarget: RouteTarget = {
     name: "GET /team/matrix.data?status=lapsed (manager, team-matrix)",
@@ -253,11 +323,14 @@ async function measureHttp(benchBuild: BenchBuild, settings: Record<string, unkn
   return figures;
 }
 
+/** The environment of every bench server: production, the bench database, bench-only secrets, no reminder timer. */
+const serverEnv = (databaseUrl: string) => ({ NODE_ENV: "production", DATABASE_URL: databaseUrl, DATA_DIR: path.relative(PROJECT_ROOT, BENCH_DIR), SESSION_SECRET, TOTP_SECRET, TIDEMARK_REMINDERS: "off" });
+
 async function main(): Promise<void> {
   const started = performance.now();
-  const settings: Record<string, unknown> = { ...load, simRuns, simWarmupRuns: 10 };
+  const settings: Record<string, unknown> = { ...load, simRuns, simWarmupRuns: 10, ...(only ? { only } : {}) };
   const results: BenchResults = {
-    format: 1,
+    format: 2,
     timestamp: new Date().toISOString(),
     machine: {
       cpus: os.cpus().length,
@@ -273,45 +346,54 @@ async function main(): Promise<void> {
     http: [],
     sim: [],
     bundle: null,
+    summary: [],
     errors,
   };
 
-  section("Simulator: 60 s of breathing per mode");
-  try {
-    results.sim = timeModes(path.join(PROJECT_ROOT, "seeds", "scenarios"), { runs: simRuns, warmupRuns: 10 });
-    console.log(formatSim(results.sim));
-  } catch (error) {
-    errors.push(`Simulator: ${message(error)}`);
+  if (runs("sim")) {
+    section("Simulator: 60 s of breathing per mode");
+    try {
+      results.sim = timeModes(path.join(PROJECT_ROOT, "seeds", "scenarios"), { runs: simRuns, warmupRuns: 10 });
+      console.log(formatSim(results.sim));
+    } catch (error) {
+      errors.push(`Simulator: ${message(error)}`);
+    }
   }
 
-  section("Scoring: grading one 50-item attempt");
-  try {
-    const scoring = timeScoring({ runs: 2000, warmupRuns: 200 });
-    settings.scoring = scoring;
-    console.log(formatScoring(scoring));
-  } catch (error) {
-    errors.push(`Scoring: ${message(error)}`);
+  if (runs("scoring")) {
+    section("Scoring: grading one 50-item attempt");
+    try {
+      const scoring = timeScoring({ runs: 2000, warmupRuns: 200 });
+      settings.scoring = scoring;
+      console.log(formatScoring(scoring));
+    } catch (error) {
+      errors.push(`Scoring: ${message(error)}`);
+    }
   }
 
-  section("Certificate PDF: one render");
-  try {
-    const certificate = await timeCertificatePdf();
-    settings["certificate.pdf"] = certificate;
-    console.log(formatCertificate(certificate));
-  } catch (error) {
-    errors.push(`certificate.pdf: ${message(error)}`);
+  if (runs("certificate")) {
+    section("Certificate PDF: one render");
+    try {
+      const certificate = await timeCertificatePdf();
+      settings["certificate.pdf"] = certificate;
+      console.log(formatCertificate(certificate));
+    } catch (error) {
+      errors.push(`certificate.pdf: ${message(error)}`);
+    }
   }
 
-  section("Production build (fresh, of the working tree, in a temporary folder)");
-  try {
-    build = await buildPrivateCopy(PROJECT_ROOT);
-    settings.build = `fresh react-router build of the working tree (${build.files} files) in a temporary copy, ${(build.buildMs / 1000).toFixed(1)} s`;
-    console.log(settings.build);
-  } catch (error) {
-    errors.push(`Build: ${message(error)}`);
+  if (needsBuild) {
+    section("Production build (fresh, of the working tree, in a temporary folder)");
+    try {
+      build = await buildPrivateCopy(PROJECT_ROOT);
+      settings.build = `fresh react-router build of the working tree (${build.files} files) in a temporary copy, ${(build.buildMs / 1000).toFixed(1)} s`;
+      console.log(settings.build);
+    } catch (error) {
+      errors.push(`Build: ${message(error)}`);
+    }
   }
 
-  if (build) {
+  if (build && runs("bundle")) {
     section("Bench page JavaScript beyond the shell");
     try {
       results.bundle = measureBenchBundle(build.clientDir);
@@ -319,65 +401,125 @@ async function main(): Promise<void> {
     } catch (error) {
       errors.push(`Bundle size: ${message(error)}`);
     }
+  }
 
-    section("HTTP (production build, loopback)");
+  let widened: Awaited<ReturnType<typeof widenRequirements>> | undefined;
+  if (needsDatabase && !interrupted) {
+    section(`Bench database (${peopleCount} people)`);
     try {
-      results.http = await measureHttp(build, settings);
+      ({ db: benchDatabase, widened } = await seedBenchDatabase(settings));
     } catch (error) {
-      errors.push(`HTTP: ${message(error)}`);
-    } finally {
-      await server?.stop();
-      if (server) console.log(`Server PID ${server.pid} stopped.`);
-      server = undefined;
-    }
-    if (results.http.length > 0) {
-      console.log(formatHttp(results.http));
-      console.log("p50/p95/p99 from every response time (nearest rank); no compression requested (autocannon sends no Accept-Encoding).");
-    }
-
-    section(`Reminder job over the large organisation (${peopleCount} people)`);
-    try {
-      if (interrupted) throw new Error("interrupted");
-      if (!benchDatabaseUrl) throw new Error("the bench database was not seeded (see the HTTP error above).");
-      const figure = await measureReminderRun({ sourceUrl: benchDatabaseUrl, workDir: BENCH_DIR, today: String(settings.seedToday ?? defaultSeedDate()) });
-      settings["reminders.run-2000-people"] = figure;
-      console.log(formatReminderRun(figure));
-    } catch (error) {
-      errors.push(`reminders.run-2000-people: ${message(error)}`);
-      console.error(`  ${message(error)}`);
-    }
-
-    section(`Exam autosave under load (${autosave.examinees} examinees, ${autosave.seconds} s, ${autosave.mode})`);
-    try {
-      if (interrupted) throw new Error("interrupted");
-      if (!benchDatabaseUrl) throw new Error("the bench database was not seeded (see the HTTP error above).");
-      const databaseUrl = benchDatabaseUrl;
-      const figure = await measureAutosave({
-        projectRoot: PROJECT_ROOT,
-        serverEntry: build.serverEntry,
-        databaseUrl,
-        port: await choosePort(positive("port", flags.port) + 1),
-        logFile: path.join(BENCH_DIR, "server-autosave.log"),
-        env: { NODE_ENV: "production", DATABASE_URL: databaseUrl, DATA_DIR: path.relative(PROJECT_ROOT, BENCH_DIR), SESSION_SECRET, TOTP_SECRET, TIDEMARK_REMINDERS: "off" },
-        sessionSecret: SESSION_SECRET,
-        settings: autosave,
-        onServer: (s) => (server = s),
-      });
-      settings.autosave = figure;
-      console.log(formatAutosave(figure));
-    } catch (error) {
-      errors.push(`Autosave: ${message(error)}`);
-      console.error(`  ${message(error)}`);
-    } finally {
-      build.remove();
+      errors.push(`Bench database: ${message(error)}`);
     }
   }
+  const notSeeded = "the bench database was not seeded (see the error above).";
+
+  try {
+    if (build && runs("http")) {
+      section("HTTP (production build, loopback)");
+      try {
+        if (!benchDatabase) throw new Error(notSeeded);
+        results.http = await measureHttp(build, benchDatabase, widened, settings);
+      } catch (error) {
+        errors.push(`HTTP: ${message(error)}`);
+      } finally {
+        await server?.stop();
+        if (server) console.log(`Server PID ${server.pid} stopped.`);
+        server = undefined;
+      }
+      if (results.http.length > 0) {
+        console.log(formatHttp(results.http));
+        console.log("p50/p95/p99 from every response time (nearest rank); no compression requested (autocannon sends no Accept-Encoding).");
+      }
+    }
+
+    if (runs("reminders")) {
+      section(`Reminder job over the large organisation (${peopleCount} people)`);
+      try {
+        if (interrupted) throw new Error("interrupted");
+        if (!benchDatabase) throw new Error(notSeeded);
+        const figure = await measureReminderRun({ sourceUrl: benchDatabase.databaseUrl, workDir: BENCH_DIR, today: String(settings.seedToday ?? defaultSeedDate()) });
+        settings["reminders.run-2000-people"] = figure;
+        console.log(formatReminderRun(figure));
+      } catch (error) {
+        errors.push(`reminders.run-2000-people: ${message(error)}`);
+        console.error(`  ${message(error)}`);
+      }
+    }
+
+    if (build && runs("autosave")) {
+      section(`Exam autosave under load (${autosave.examinees} examinees, ${autosave.seconds} s, ${autosave.mode})`);
+      try {
+        if (interrupted) throw new Error("interrupted");
+        if (!benchDatabase) throw new Error(notSeeded);
+        const databaseUrl = benchDatabase.databaseUrl;
+        const figure = await measureAutosave({
+          projectRoot: PROJECT_ROOT,
+          serverEntry: build.serverEntry,
+          databaseUrl,
+          port: await choosePort(positive("port", flags.port) + 1),
+          logFile: path.join(BENCH_DIR, "server-autosave.log"),
+          env: serverEnv(databaseUrl),
+          sessionSecret: SESSION_SECRET,
+          settings: autosave,
+          onServer: (s) => (server = s),
+        });
+        settings.autosave = figure;
+        console.log(formatAutosave(figure));
+      } catch (error) {
+        errors.push(`Autosave: ${message(error)}`);
+        console.error(`  ${message(error)}`);
+      }
+    }
+
+    if (build && runs("shift-start")) {
+      section(`Shift start: ${shiftStart.people} people signing in and taking an exam, ${shiftStart.managers} managers paging Team (${shiftStart.seconds} s, ${shiftStart.mode})`);
+      try {
+        if (interrupted) throw new Error("interrupted");
+        if (!benchDatabase) throw new Error(notSeeded);
+        const databaseUrl = benchDatabase.databaseUrl;
+        const figure = await measureShiftStart({
+          projectRoot: PROJECT_ROOT,
+          serverEntry: build.serverEntry,
+          databaseUrl,
+          port: await choosePort(positive("port", flags.port) + 2),
+          logFile: path.join(BENCH_DIR, "server-shift-start.log"),
+          env: serverEnv(databaseUrl),
+          settings: shiftStart,
+          onServer: (s) => (server = s),
+        });
+        settings["shift-start"] = figure;
+        console.log(formatShiftStart(figure, table));
+      } catch (error) {
+        errors.push(`Shift start: ${message(error)}`);
+        console.error(`  ${message(error)}`);
+      }
+    }
+  } finally {
+    build?.remove();
+  }
+
+  results.summary = buildSummary({
+    sim: results.sim,
+    scoring: settings.scoring as never,
+    certificate: settings["certificate.pdf"] as never,
+    bundle: results.bundle,
+    http: results.http,
+    healthzOneConnection: settings["healthz.one-connection"] as never,
+    teamMatrix: settings["team-matrix"] as never,
+    reminders: settings["reminders.run-2000-people"] as never,
+    autosave: settings.autosave as never,
+    shiftStart: settings["shift-start"] as never,
+  });
+  section(`Whole product: every measured route and job against the targets of issues 3, 5, 8 and 9${only ? ` (only: ${only.join(", ")})` : ""}`);
+  console.log(formatSummary(results.summary, table));
 
   const previous = existsSync(RESULTS_FILE) ? (JSON.parse(readFileSync(RESULTS_FILE, "utf8")) as BenchResults) : null;
   writeFileSync(RESULTS_FILE, `${JSON.stringify(results, null, 2)}\n`);
   section("Results");
-  console.log(`Wrote bench-results.json (${results.machine.cpus} CPUs, node ${results.machine.node}, load ${results.machine.loadAverage1m}) in ${((performance.now() - started) / 1000).toFixed(0)} s.`);
-  if (previous?.format === results.format) console.log(compareWithPrevious(previous, results).join("\n"));
+  console.log(`Wrote ${path.relative(PROJECT_ROOT, RESULTS_FILE) || RESULTS_FILE} (${results.machine.cpus} CPUs, node ${results.machine.node}, load ${results.machine.loadAverage1m}) in ${((performance.now() - started) / 1000).toFixed(0)} s.`);
+  // Format 1 files hold the same http, sim and bundle shapes (format 2 added `summary`): compared on what both hold.
+  if (previous && (previous.format === results.format || (previous.format as number) === 1)) console.log(compareWithPrevious(previous, results).join("\n"));
   else if (previous) console.log("The previous bench-results.json has another format: no comparison.");
   else console.log("No previous bench-results.json: nothing to compare with.");
 

@@ -40,6 +40,7 @@ export type ScoringFigure = {
   meanMs: number;
   p50Ms: number;
   p95Ms: number;
+  p99Ms: number;
   maxMs: number;
   /** The graded result of the attempt, so a reader sees it was a real attempt. */
   attempt: { raw: number; max: number; percent: number; passed: boolean; topics: number };
@@ -121,6 +122,7 @@ export function timeScoring(options: { runs: number; warmupRuns: number }): Scor
     meanMs: round4(times.reduce((s, t) => s + t, 0) / times.length),
     p50Ms: round4(at(sorted, 50)),
     p95Ms,
+    p99Ms: round4(at(sorted, 99)),
     maxMs: round4(sorted[sorted.length - 1]),
     attempt: { raw: round4(last.raw), max: last.max, percent: round4(last.percent), passed: last.passed, topics: last.subscores.length },
     targetMs: SCORING_TARGET_MS,

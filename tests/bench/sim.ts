@@ -32,6 +32,8 @@ export type SimFigure = {
   medianMs: number;
   minMs: number;
   p90Ms: number;
+  p95Ms: number;
+  p99Ms: number;
   maxMs: number;
   targetMs: number;
   meetsTarget: boolean;
@@ -114,6 +116,8 @@ export function timeModes(dir: string, options: { runs: number; warmupRuns: numb
       medianMs,
       minMs: round3(sorted[0]),
       p90Ms: round3(at(sorted, 90)),
+      p95Ms: round3(at(sorted, 95)),
+      p99Ms: round3(at(sorted, 99)),
       maxMs: round3(sorted[sorted.length - 1]),
       targetMs: SIM_TARGET_MS,
       meetsTarget: last.simulatedS >= SIMULATED_S && medianMs < SIM_TARGET_MS,
