@@ -56,7 +56,7 @@ export async function recordIssuedCode(input: {
       })
       .returning();
     return row;
-  });
+  }, { quiet: true }); // sign-in codes are in no cached organisation-wide read (client.server.ts)
 }
 
 export type CodeCheck =
@@ -95,7 +95,7 @@ export async function checkCode(recordId: string | null, code: string, now: Date
         .where(eq(signInCodes.id, record.id))
         .returning({ attempts: signInCodes.attempts });
       return r.attempts;
-    });
+    }, { quiet: true });
     const triesLeft = MAX_CODE_TRIES - attempts;
     if (triesLeft <= 0) return { ok: false, reason: "too-many-tries", message: CODE_MESSAGES["too-many-tries"] };
     return {
@@ -112,6 +112,7 @@ export async function checkCode(recordId: string | null, code: string, now: Date
       .set({ consumedAt: now })
       .where(and(eq(signInCodes.id, record.id), isNull(signInCodes.consumedAt)))
       .returning({ id: signInCodes.id }),
+    { quiet: true },
   );
   if (consumed.length === 0) return { ok: false, reason: "used", message: CODE_MESSAGES.used };
   return { ok: true, record: { ...record, personId: record.personId as string } };
